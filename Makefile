@@ -1,0 +1,51 @@
+# Warmstead: `make run` and `make test` do all set-up on a fresh machine.
+PYTHON ?= python3
+VENV   := .venv
+BIN    := $(VENV)/bin
+PORT   ?= 8000
+HOST   ?= 127.0.0.1
+WORKERS ?= 1
+STAMP  := $(VENV)/.installed
+
+.PHONY: run test install migrate demo browser lint bench clean
+
+$(STAMP): pyproject.toml
+	@test -x $(BIN)/python || $(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install -q --upgrade pip
+	$(BIN)/python -m pip install -q -e '.[test]'
+	@touch $(STAMP)
+
+install: $(STAMP)
+
+migrate: $(STAMP)
+	$(BIN)/warmstead migrate
+
+demo: migrate
+	$(BIN)/warmstead demo
+
+## make run: create the venv, install, migrate, load the demo house, serve on $(HOST):$(PORT)
+run: demo
+	$(BIN)/warmstead serve --host $(HOST) --port $(PORT) --workers $(WORKERS)
+
+## Debian's chromium for the browser tests (never a downloaded browser build)
+browser:
+	@if command -v chromium >/dev/null 2>&1; then echo "chromium: $$(command -v chromium)"; \
+	elif [ "$$(id -u)" = "0" ] && command -v apt-get >/dev/null 2>&1; then \
+	  (apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium) \
+	  || echo "chromium could not be installed: browser tests will skip"; \
+	else echo "chromium is not installed and cannot be installed here: browser tests will skip"; fi
+
+lint: $(STAMP)
+	$(BIN)/ruff check server tests scripts
+	$(BIN)/mypy
+
+## make test: install everything, then lint and run the whole suite (SQLite, and PostgreSQL when reachable)
+test: $(STAMP) browser
+	$(BIN)/ruff check server tests scripts
+	$(BIN)/python -m pytest
+
+bench: $(STAMP)
+	$(BIN)/python scripts/bench_weather.py
+
+clean:
+	rm -rf $(VENV) var .pytest_cache .hypothesis

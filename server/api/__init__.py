@@ -1,0 +1,9 @@
+"""The one registry of JSON routes under /api/v1."""
+
+from fastapi import APIRouter
+
+from server.api.routes import assembly, degree_days, house, pipe
+
+api_router = APIRouter(prefix="/api/v1")
+for module in (assembly, pipe, degree_days, house):
+    api_router.include_router(module.router)

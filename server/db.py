@@ -1,0 +1,68 @@
+"""Engine and session factory. SQLite gets WAL, foreign keys and a busy timeout."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+from contextlib import contextmanager
+
+from sqlalchemy import Engine, create_engine, event
+from sqlalchemy.engine import make_url
+from sqlalchemy.orm import Session, sessionmaker
+from sqlalchemy.pool import StaticPool
+
+
+def normalise_url(url: str) -> str:
+    """Accept ``postgresql://`` and ``postgres://`` and use the psycopg 3 driver for them."""
+    if url.startswith("postgres://"):
+        url = "postgresql://" + url.removeprefix("postgres://")
+    if url.startswith("postgresql://"):
+        url = "postgresql+psycopg://" + url.removeprefix("postgresql://")
+    return url
+
+
+def make_engine(url: str, *, echo: bool = False) -> Engine:
+    """Create an engine for ``url`` with the project's connection settings."""
+    url = normalise_url(url)
+    parsed = make_url(url)
+    if parsed.get_backend_name() == "sqlite":
+        in_memory = parsed.database in (None, "", ":memory:")
+        if not in_memory and parsed.database:
+            from pathlib import Path
+
+            Path(parsed.database).parent.mkdir(parents=True, exist_ok=True)
+        engine = create_engine(
+            url,
+            echo=echo,
+            connect_args={"check_same_thread": False, "timeout": 15},
+            poolclass=StaticPool if in_memory else None,
+        )
+        event.listen(engine, "connect", _sqlite_pragmas)
+        return engine
+    return create_engine(url, echo=echo, pool_pre_ping=True, pool_size=10, max_overflow=10)
+
+
+def _sqlite_pragmas(dbapi_connection, _record) -> None:  # type: ignore[no-untyped-def]
+    cursor = dbapi_connection.cursor()
+    cursor.execute("PRAGMA journal_mode=WAL")
+    cursor.execute("PRAGMA foreign_keys=ON")
+    cursor.execute("PRAGMA busy_timeout=15000")
+    cursor.execute("PRAGMA synchronous=NORMAL")
+    cursor.close()
+
+
+def make_session_factory(engine: Engine) -> sessionmaker[Session]:
+    return sessionmaker(bind=engine, expire_on_commit=False, autoflush=False)
+
+
+@contextmanager
+def session_scope(factory: sessionmaker[Session]) -> Iterator[Session]:
+    """A session that commits on success and rolls back on error."""
+    session = factory()
+    try:
+        yield session
+        session.commit()
+    except Exception:
+        session.rollback()
+        raise
+    finally:
+        session.close()

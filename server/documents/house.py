@@ -1,0 +1,405 @@
+"""The house document (request of ``POST /api/v1/calc/house``) and its result.
+
+The same :class:`HouseDocument` is what a saved house exports and imports. Every number is in
+the document's ``units`` (table in ../shared/API.md), with these decisions:
+
+* Fuel prices are per the fuel's own unit of sale (therm, gallon, kWh, cord) in both unit
+  systems; cooling electricity is per kWh. Money is a plain number in ``currency``.
+* ``cfm50`` is always ft³/min at 50 Pa (the unit is in its name); ``n50`` (ACH50, 1/h) is the
+  unit-free alternative. ``volume`` is ft³ or m³.
+* A surface gives exactly one of ``assembly`` (layers, computed by the assembly calculator),
+  ``r`` (the whole assembly's R, films included, used as is) or ``u`` (its U-factor, e.g. a
+  window's rated U). A ``pipe_run`` surface gives ``length``, ``pipe`` and ``hours_per_year``
+  instead of an area and an assembly.
+* Upgrade kinds: ``assembly`` (a new assembly, or ``r``/``u``, on one surface; the default
+  when ``surface`` and an assembly are given), ``air_sealing`` (``cfm50_after`` or
+  ``n50_after``), ``pipe_insulation`` (new ``pipe_layers`` on a pipe run, replacing its
+  insulation). Cost is ``fixed + per_area × area + per_length × length``; air sealing takes
+  only ``fixed``; ``per_area`` belongs to assemblies and ``per_length`` to pipe insulation.
+* Efficiency is a fraction (AFUE 0.80) for combustion fuels and electric resistance (at most
+  1: the energy contents are higher heating values), a seasonal COP for ``heat_pump`` (at
+  most 10).
+* CO2 is in kg in both unit systems.
+"""
+
+from __future__ import annotations
+
+from typing import Annotated, Literal
+
+from pydantic import Field, model_validator
+
+from server.documents.assembly import AssemblyInput
+from server.documents.common import Name, Number, Out, Positive, Strict, Units
+from server.documents.pipe import PipeLayerIn
+
+Ident = Annotated[str, Field(min_length=1, max_length=80, pattern=r"^[A-Za-z0-9][A-Za-z0-9_.-]*$")]
+Rate = Annotated[float, Field(gt=-1, lt=1, allow_inf_nan=False)]
+#: generous upper bounds keep every product finite (common practice, not physics)
+Area = Annotated[float, Field(gt=0, le=1e7, allow_inf_nan=False)]
+Money = Annotated[float, Field(ge=0, le=1e9, allow_inf_nan=False)]
+Price = Annotated[float, Field(ge=0, le=1e6, allow_inf_nan=False)]
+RValue = Annotated[float, Field(ge=0.01, le=1000, allow_inf_nan=False)]
+UValue = Annotated[float, Field(gt=0, le=100, allow_inf_nan=False)]
+FuelSlug = Literal[
+    "natural_gas", "propane", "heating_oil", "electric_resistance", "heat_pump", "wood"
+]
+SurfaceKind = Literal[
+    "wall",
+    "ceiling",
+    "cathedral_roof",
+    "floor",
+    "basement_wall",
+    "rim_joist",
+    "kneewall",
+    "door",
+    "window",
+    "other",
+    "pipe_run",
+]
+UpgradeKind = Literal["assembly", "air_sealing", "pipe_insulation"]
+
+
+class ClimateIn(Strict):
+    """Degree-days at the house's balance bases (the bases are recorded, not used)."""
+
+    hdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)]
+    cdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)] = 0.0
+    heating_base: Number | None = None
+    cooling_base: Number | None = None
+
+
+class HeatingIn(Strict):
+    """Heating system: fuel, seasonal efficiency (or COP), price per fuel unit."""
+
+    fuel: FuelSlug
+    efficiency: Annotated[float, Field(gt=0, le=10, allow_inf_nan=False)]
+    price: Price
+    co2_per_unit: Price | None = Field(
+        default=None, description="kg CO2 per fuel unit; omitted = the fuel table's factor"
+    )
+
+    @model_validator(mode="after")
+    def _efficiency_meaning(self) -> HeatingIn:
+        if self.fuel != "heat_pump" and self.efficiency > 1:
+            raise ValueError(
+                f"the efficiency of {self.fuel} is a fraction of at most 1 (0.80 for 80 %); "
+                "only a heat pump takes a COP above 1"
+            )
+        return self
+
+
+class CoolingIn(Strict):
+    """Cooling system: exactly one of ``seer`` [Btu/Wh] or ``cop``; price per kWh."""
+
+    seer: Annotated[float, Field(gt=0, le=60, allow_inf_nan=False)] | None = None
+    cop: Annotated[float, Field(gt=0, le=20, allow_inf_nan=False)] | None = None
+    electricity_price: Price
+
+    @model_validator(mode="after")
+    def _one_rating(self) -> CoolingIn:
+        if (self.seer is None) == (self.cop is None):
+            raise ValueError("give the cooling system exactly one of seer or cop")
+        return self
+
+
+class AirLeakageIn(Strict):
+    """Blower-door result: exactly one of ``cfm50`` [ft³/min] or ``n50`` [1/h]."""
+
+    cfm50: Annotated[float, Field(ge=0, le=1e6, allow_inf_nan=False)] | None = None
+    n50: Annotated[float, Field(ge=0, le=100, allow_inf_nan=False)] | None = None
+    n_factor: Annotated[float, Field(ge=1, le=100, allow_inf_nan=False)] = Field(
+        default=18.0, description="LBL N-factor; 18 when omitted (common practice)"
+    )
+    volume: Annotated[float, Field(gt=0, le=1e9, allow_inf_nan=False)]
+
+    @model_validator(mode="after")
+    def _one_figure(self) -> AirLeakageIn:
+        if (self.cfm50 is None) == (self.n50 is None):
+            raise ValueError("give the air leakage exactly one of cfm50 or n50")
+        return self
+
+
+class PipeIn(Strict):
+    """A pipe run's pipe, insulation (inside to outside) and temperatures (as /calc/pipe)."""
+
+    pipe_outer_diameter: Positive
+    layers: list[PipeLayerIn] = Field(default_factory=list, max_length=20)
+    fluid_temperature: Number
+    ambient_temperature: Number
+    surface_coefficient: Positive | None = None
+    emissivity: Annotated[float, Field(gt=0, le=1, allow_inf_nan=False)] = 0.9
+
+
+class SurfaceIn(Strict):
+    """One piece of the envelope, or a pipe run (``kind: pipe_run``)."""
+
+    id: Ident
+    kind: SurfaceKind
+    name: Name = ""
+    area: Area | None = None
+    assembly: AssemblyInput | None = None
+    r: RValue | None = Field(default=None, description="whole-assembly R, films included")
+    u: UValue | None = Field(default=None, description="whole-assembly U-factor")
+    length: Area | None = Field(default=None, description="pipe runs: ft or m")
+    pipe: PipeIn | None = None
+    hours_per_year: Annotated[float, Field(gt=0, le=8784, allow_inf_nan=False)] | None = None
+
+    @model_validator(mode="after")
+    def _shape(self) -> SurfaceIn:
+        given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
+        if self.kind == "pipe_run":
+            missing = [n for n in ("length", "pipe", "hours_per_year") if getattr(self, n) is None]
+            if missing:
+                raise ValueError(f"a pipe run needs {', '.join(missing)}")
+            if given or self.area is not None:
+                raise ValueError("a pipe run takes length, pipe and hours_per_year, not an area")
+            return self
+        if self.area is None:
+            raise ValueError(f"a {self.kind} needs its area")
+        if len(given) != 1:
+            raise ValueError(
+                "give the surface exactly one of assembly, r or u"
+                + (f" (got {', '.join(given)})" if given else "")
+            )
+        if self.length is not None or self.pipe is not None or self.hours_per_year is not None:
+            raise ValueError("length, pipe and hours_per_year belong to pipe runs only")
+        return self
+
+
+class CostIn(Strict):
+    """Installed cost = fixed + per_area × area + per_length × length (document's currency)."""
+
+    fixed: Money = 0.0
+    per_area: Price = 0.0
+    per_length: Price = 0.0
+
+
+class UpgradeIn(Strict):
+    """A proposed change: a new assembly, air sealing, or pipe insulation."""
+
+    id: Ident
+    kind: UpgradeKind | None = Field(default=None, description="omitted = worked out")
+    name: Name = ""
+    surface: Ident | None = None
+    assembly: AssemblyInput | None = None
+    r: RValue | None = None
+    u: UValue | None = None
+    cfm50_after: Annotated[float, Field(ge=0, le=1e6, allow_inf_nan=False)] | None = None
+    n50_after: Annotated[float, Field(ge=0, le=100, allow_inf_nan=False)] | None = None
+    pipe_layers: list[PipeLayerIn] | None = Field(default=None, max_length=20)
+    cost: CostIn = Field(default_factory=CostIn)
+    rebate: Money = 0.0
+    life_years: Annotated[float, Field(gt=0, le=100, allow_inf_nan=False)] | None = None
+
+    @model_validator(mode="after")
+    def _shape(self) -> UpgradeIn:
+        assembly_given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
+        sealing_given = [n for n in ("cfm50_after", "n50_after") if getattr(self, n) is not None]
+        if self.kind is None:
+            if sealing_given:
+                self.kind = "air_sealing"
+            elif self.pipe_layers is not None:
+                self.kind = "pipe_insulation"
+            elif self.surface is not None and assembly_given:
+                self.kind = "assembly"
+            else:
+                raise ValueError(
+                    "say what the upgrade does: a surface and a new assembly, cfm50_after for "
+                    "air sealing, or pipe_layers for pipe insulation"
+                )
+        others = {
+            "assembly": sealing_given + (["pipe_layers"] if self.pipe_layers is not None else []),
+            "air_sealing": assembly_given
+            + [n for n in ("surface", "pipe_layers") if getattr(self, n) is not None],
+            "pipe_insulation": assembly_given + sealing_given,
+        }[self.kind]
+        if others:
+            raise ValueError(f"a {self.kind} upgrade does not take {', '.join(others)}")
+        if self.kind == "assembly":
+            if self.surface is None or len(assembly_given) != 1:
+                raise ValueError(
+                    "an assembly upgrade needs a surface and exactly one of assembly, r or u"
+                )
+            if self.cost.per_length:
+                raise ValueError("an assembly upgrade is priced fixed + per_area, not per_length")
+        elif self.kind == "air_sealing":
+            if len(sealing_given) != 1:
+                raise ValueError("air sealing needs exactly one of cfm50_after or n50_after")
+            if self.cost.per_area or self.cost.per_length:
+                raise ValueError("air sealing has no area or length: give its cost as fixed")
+        else:
+            if self.surface is None or self.pipe_layers is None:
+                raise ValueError("pipe insulation needs the pipe run (surface) and pipe_layers")
+            if self.cost.per_area:
+                raise ValueError("pipe insulation is priced fixed + per_length, not per_area")
+        return self
+
+
+class PackageIn(Strict):
+    """Upgrades done together; incremental savings are reported in this order."""
+
+    id: Ident
+    name: Name = ""
+    upgrades: list[Ident] = Field(min_length=1, max_length=50)
+
+
+class LoanIn(Strict):
+    """A loan on the net cost: APR as a fraction, term in years (payments monthly)."""
+
+    apr: Annotated[float, Field(ge=0, lt=1, allow_inf_nan=False)]
+    years: Annotated[int, Field(ge=1, le=50)]
+
+
+class EconomicsIn(Strict):
+    """Study settings (NIST Handbook 135): use ``discount_rate`` and ``fuel_escalation`` on the
+    same basis (both real or both nominal). The escalation applies to all energy savings."""
+
+    discount_rate: Rate = 0.03
+    fuel_escalation: Rate = 0.0
+    years: Annotated[int, Field(ge=1, le=100)] = 20
+    loan: LoanIn | None = None
+
+
+class HouseDocument(Strict):
+    """The whole comparison as one document."""
+
+    units: Units
+    name: Name = ""
+    currency: Annotated[str, Field(pattern=r"^[A-Z]{3}$")] = "USD"
+    climate: ClimateIn
+    heating: HeatingIn
+    cooling: CoolingIn | None = None
+    air_leakage: AirLeakageIn | None = None
+    surfaces: list[SurfaceIn] = Field(min_length=1, max_length=200)
+    upgrades: list[UpgradeIn] = Field(default_factory=list, max_length=100)
+    packages: list[PackageIn] = Field(default_factory=list, max_length=50)
+    economics: EconomicsIn = Field(default_factory=EconomicsIn)
+    electricity_co2_per_kwh: Price | None = Field(
+        default=None, description="kg CO2 per kWh; omitted = grid average (from memory)"
+    )
+
+
+# --- result ------------------------------------------------------------------------------------
+
+
+class SurfaceFigures(Out):
+    """One surface in the result: R, U, UA and its share of the whole-house UA."""
+
+    id: str
+    kind: str
+    name: str
+    area: float
+    r: float
+    u: float
+    ua: float
+    share_of_ua: float = Field(description="fraction of the house's UA (envelope + air)")
+
+
+class PipeFigures(Out):
+    """One pipe run: per-length resistance and heat loss, annual loss (Btu or kWh)."""
+
+    id: str
+    name: str
+    length: float
+    r_per_length: float
+    heat_loss_per_length: float
+    annual_loss: float
+
+
+class HouseFigures(Out):
+    """A year of the house in the document's units (ip: Btu/(h·°F), Btu; si: W/K, kWh)."""
+
+    ua: float = Field(description="envelope + infiltration, per degree")
+    ua_envelope: float
+    ua_infiltration: float
+    ua_by_surface: dict[str, float]
+    surfaces: list[SurfaceFigures]
+    cfm50: float | None = None
+    ach50: float | None = None
+    ach_natural: float | None = None
+    heating_load: float = Field(description="annual, Btu (ip) or kWh (si), envelope + air")
+    pipe_loss: float = Field(description="annual, Btu (ip) or kWh (si)")
+    pipes: list[PipeFigures] = []
+    heating_fuel: float = Field(description="fuel units per year (heating_fuel_unit)")
+    heating_fuel_unit: str
+    heating_cost: float
+    cooling_load: float = Field(description="annual sensible, Btu (ip) or kWh (si)")
+    cooling_electricity: float = Field(description="kWh per year")
+    cooling_cost: float
+    total_cost: float
+    heating_co2: float = Field(description="kg per year")
+    cooling_co2: float = Field(description="kg per year")
+    co2: float = Field(description="kg per year")
+
+
+class StepFigures(Out):
+    """What one upgrade saves on the house that already has the package's earlier upgrades."""
+
+    upgrade: str
+    annual_savings: float
+    ua_reduction: float
+    co2_avoided: float
+
+
+class CashFlowFigures(Out):
+    """Cumulative cash flow, year 0..N; the chart draws ``cumulative_discounted``."""
+
+    years: list[int]
+    cumulative: list[float]
+    cumulative_discounted: list[float]
+    chart: Literal["cumulative_discounted"] = "cumulative_discounted"
+
+
+class OptionFigures(HouseFigures):
+    """A package (or one upgrade alone) as one modified house, with its money figures."""
+
+    id: str
+    name: str
+    upgrades: list[str]
+    annual_savings: float = Field(description="first year: as-found cost - this house's cost")
+    installed_cost: float
+    rebates: float
+    net_cost: float = Field(description="installed cost - rebates")
+    simple_payback_years: float | None = Field(description="null when savings <= 0")
+    payback_year: float | None = Field(description="crossing of the undiscounted cash flow")
+    discounted_payback_years: float | None
+    present_value: float = Field(description="present value of the savings")
+    npv: float
+    sir: float | None = Field(description="null when net cost <= 0")
+    monthly_loan_payment: float | None = Field(description="null when there is no loan")
+    monthly_savings: float
+    co2_avoided: float = Field(description="kg per year")
+    heating_fuel_saved: float
+    steps: list[StepFigures] = Field(description="incremental savings in the listed order")
+    cash_flow: CashFlowFigures
+    warnings: list[str] = []
+
+
+class FuelFigures(Out):
+    """The fuel row used, with its sources."""
+
+    fuel: str
+    label: str
+    unit: str
+    energy_per_unit: float = Field(description="Btu (ip) or kWh (si) per fuel unit")
+    energy_source: str
+    co2_per_unit: float = Field(description="kg per fuel unit")
+    co2_source: str
+    efficiency_meaning: str
+    electricity_co2_per_kwh: float
+    electricity_co2_source: str
+
+
+class HouseResult(Out):
+    """As found, each package, and each upgrade alone."""
+
+    units: Units
+    currency: str
+    as_found: HouseFigures
+    packages: list[OptionFigures]
+    upgrades: list[OptionFigures] = Field(description="each upgrade alone, in document order")
+    fuel: FuelFigures
+    analysis_years: int
+    step_order: str
+    assumptions: list[str]
+    warnings: list[str] = []

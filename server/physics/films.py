@@ -1,0 +1,67 @@
+"""Surface film (air-film) resistances by heat-flow direction.
+
+References
+----------
+[1] ASHRAE Handbook—Fundamentals (2017), ch. 26, Table 10 "Surface Film Coefficients/
+    Resistances": still air, non-reflective surfaces (emittance 0.90); outside 15 mph wind.
+    Values in h·ft²·°F/Btu (from memory, common practice in the trade).
+[2] ISO 6946:2017, Building components and building elements — Thermal resistance and thermal
+    transmittance — Calculation methods, Table 7 (conventional surface resistances, m²·K/W).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+from server.physics.units import r_ip_to_si
+
+HeatFlow = Literal["horizontal", "up", "down"]
+FilmSet = Literal["ashrae", "iso6946", "none"]
+
+
+@dataclass(frozen=True, slots=True)
+class Films:
+    """Inside and outside film resistances [m²·K/W]."""
+
+    inside_r_si: float
+    outside_r_si: float
+
+    @property
+    def total_r_si(self) -> float:
+        return self.inside_r_si + self.outside_r_si
+
+
+# ASHRAE [1], IP values: inside still air by direction; outside 15 mph wind (any direction).
+_ASHRAE_INSIDE_IP = {"horizontal": 0.68, "up": 0.61, "down": 0.92}
+_ASHRAE_OUTSIDE_IP = 0.17
+# ISO 6946 [2], SI values: Rsi by direction, Rse for all directions.
+_ISO_INSIDE_SI = {"horizontal": 0.13, "up": 0.10, "down": 0.17}
+_ISO_OUTSIDE_SI = 0.04
+
+
+def surface_films(film_set: FilmSet, heat_flow: HeatFlow) -> Films:
+    """Film resistances for a film set and a heat-flow direction.
+
+    Parameters
+    ----------
+    film_set : {"ashrae", "iso6946", "none"}
+        Which convention: ASHRAE [1] still-air inside / 15 mph outside, ISO 6946 [2], or none.
+    heat_flow : {"horizontal", "up", "down"}
+        Direction of heat flow: walls are horizontal; an attic floor in winter is up; a floor
+        over a crawlspace in winter is down.
+
+    Returns
+    -------
+    Films
+        ``inside_r_si`` and ``outside_r_si`` [m²·K/W].
+    """
+    if heat_flow not in _ISO_INSIDE_SI:
+        raise ValueError("heat flow must be horizontal, up or down")
+    if film_set == "ashrae":
+        return Films(r_ip_to_si(_ASHRAE_INSIDE_IP[heat_flow]), r_ip_to_si(_ASHRAE_OUTSIDE_IP))
+    if film_set == "iso6946":
+        return Films(_ISO_INSIDE_SI[heat_flow], _ISO_OUTSIDE_SI)
+    if film_set == "none":
+        return Films(0.0, 0.0)
+    raise ValueError("films must be ashrae, iso6946 or none")

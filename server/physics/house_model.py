@@ -1,0 +1,437 @@
+"""The whole house as plain data: apply upgrades, evaluate energy and money, compare options.
+
+Everything is SI (m², W/(m²·K), W/K, m³/s, K·day, J); money is a plain number in the caller's
+currency. A package is evaluated as ONE modified house: every upgrade of the package is applied
+to a copy of the house and the copy is evaluated; savings are never added up from single
+upgrades. Each package also reports the incremental savings of its upgrades in the package's
+listed order: step i is what upgrade i saves on the house that already has upgrades 1..i-1,
+so the steps add up to the package's savings exactly.
+
+What the physics says about interaction: with the degree-day method at a fixed balance base
+and fixed system efficiencies, the annual cost is linear in the whole-house UA (envelope +
+infiltration) plus the pipe losses, and each upgrade changes one separate term. So savings of
+upgrades on different surfaces (and air sealing, and pipe runs) are exactly additive here:
+package savings = sum of single savings. The package is still computed as one house so that a
+method with interaction (a balance point that moves with UA, a system resized) changes nothing
+in the callers.
+
+References
+----------
+[1] ASHRAE Handbook—Fundamentals (2021), ch. 19, degree-day method (see :mod:`.energy`).
+[2] NIST Handbook 135 (1995), life-cycle costing (see :mod:`.economics`).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field, replace
+
+from server.physics import economics as money
+from server.physics import energy
+from server.physics.fuels import GRID_ELECTRICITY_CO2_KG_PER_KWH, KWH_J, Fuel
+
+
+@dataclass(frozen=True, slots=True)
+class Surface:
+    """One piece of the envelope: area [m²] and U-factor [W/(m²·K)], films included."""
+
+    id: str
+    kind: str
+    area_m2: float
+    u_si: float
+
+
+@dataclass(frozen=True, slots=True)
+class PipeRunLoss:
+    """A pipe run: length [m], per-length resistance [m·K/W], fluid − ambient ΔT [K], hours/yr."""
+
+    id: str
+    length_m: float
+    r_per_length_si: float
+    delta_t_k: float
+    hours_per_year: float
+
+
+@dataclass(frozen=True, slots=True)
+class AirLeakage:
+    """Blower-door result: flow at 50 Pa [m³/s], LBL N-factor [-], conditioned volume [m³]."""
+
+    flow50_m3_per_s: float
+    n_factor: float
+    volume_m3: float
+
+
+@dataclass(frozen=True, slots=True)
+class Climate:
+    """Heating and cooling degree-days [K·day] at the house's balance bases."""
+
+    hdd_k_day: float
+    cdd_k_day: float = 0.0
+
+
+@dataclass(frozen=True, slots=True)
+class Heating:
+    """Heating system: fuel row, seasonal efficiency or COP [-], price [money/fuel unit].
+
+    ``co2_kg_per_unit`` overrides the fuel's table factor [kg/fuel unit]; ``None`` takes the
+    table's (or, for electric fuels, the house's electricity factor).
+    """
+
+    fuel: Fuel
+    efficiency: float
+    price_per_unit: float
+    co2_kg_per_unit: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Cooling:
+    """Cooling system: exactly one of SEER [Btu/Wh] or COP [-]; price [money/kWh]."""
+
+    electricity_price_per_kwh: float
+    seer: float | None = None
+    cop: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Economics:
+    """Discount rate, escalation [1/year], study period [years], optional loan (APR, months)."""
+
+    discount_rate: float = 0.03
+    escalation_rate: float = 0.0
+    years: int = 20
+    loan_apr: float | None = None
+    loan_months: int | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class House:
+    """The whole house. ``electricity_co2_kg_per_kwh`` [kg/kWh] serves cooling and electric heat."""
+
+    surfaces: tuple[Surface, ...]
+    climate: Climate
+    heating: Heating
+    economics: Economics = Economics()
+    air_leakage: AirLeakage | None = None
+    cooling: Cooling | None = None
+    pipe_runs: tuple[PipeRunLoss, ...] = ()
+    electricity_co2_kg_per_kwh: float = GRID_ELECTRICITY_CO2_KG_PER_KWH
+
+
+@dataclass(frozen=True, slots=True)
+class AssemblyUpgrade:
+    """A new assembly on one surface: its U-factor [W/(m²·K)]; money in the caller's currency."""
+
+    id: str
+    surface_id: str
+    u_si: float
+    installed_cost: float = 0.0
+    rebate: float = 0.0
+    life_years: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class AirSealingUpgrade:
+    """Air sealing to a target flow at 50 Pa [m³/s]."""
+
+    id: str
+    flow50_after_m3_per_s: float
+    installed_cost: float = 0.0
+    rebate: float = 0.0
+    life_years: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class PipeInsulationUpgrade:
+    """New insulation on one pipe run: its per-length resistance [m·K/W]."""
+
+    id: str
+    pipe_id: str
+    r_per_length_si: float
+    installed_cost: float = 0.0
+    rebate: float = 0.0
+    life_years: float | None = None
+
+
+Upgrade = AssemblyUpgrade | AirSealingUpgrade | PipeInsulationUpgrade
+
+
+@dataclass(frozen=True, slots=True)
+class Package:
+    """Upgrades done together, in the order their incremental savings are reported."""
+
+    id: str
+    upgrade_ids: tuple[str, ...]
+
+
+def upgrade_target(upgrade: Upgrade) -> str:
+    """What an upgrade changes: ``surface:<id>``, ``air`` or ``pipe:<id>`` (one per package)."""
+    if isinstance(upgrade, AssemblyUpgrade):
+        return f"surface:{upgrade.surface_id}"
+    if isinstance(upgrade, PipeInsulationUpgrade):
+        return f"pipe:{upgrade.pipe_id}"
+    return "air"
+
+
+def apply_upgrades(house: House, upgrades: Sequence[Upgrade]) -> House:
+    """A copy of ``house`` with every upgrade applied.
+
+    Raises
+    ------
+    ValueError
+        Two upgrades change the same surface, pipe run or air barrier; an upgrade names a
+        surface or pipe run the house does not have; air sealing on a house without a
+        blower-door figure, or to a flow above the as-found one.
+    """
+    seen: dict[str, str] = {}
+    for upgrade in upgrades:
+        target = upgrade_target(upgrade)
+        if target in seen:
+            raise ValueError(
+                f"upgrades '{seen[target]}' and '{upgrade.id}' both change "
+                f"{target.replace(':', ' ')}; a package can change each surface, pipe run "
+                "or the air leakage only once"
+            )
+        seen[target] = upgrade.id
+    surfaces = {s.id: s for s in house.surfaces}
+    pipes = {p.id: p for p in house.pipe_runs}
+    leakage = house.air_leakage
+    for upgrade in upgrades:
+        if isinstance(upgrade, AssemblyUpgrade):
+            if upgrade.surface_id not in surfaces:
+                raise ValueError(
+                    f"upgrade '{upgrade.id}': there is no surface '{upgrade.surface_id}'"
+                )
+            surfaces[upgrade.surface_id] = replace(surfaces[upgrade.surface_id], u_si=upgrade.u_si)
+        elif isinstance(upgrade, PipeInsulationUpgrade):
+            if upgrade.pipe_id not in pipes:
+                raise ValueError(
+                    f"upgrade '{upgrade.id}': there is no pipe run '{upgrade.pipe_id}'"
+                )
+            pipes[upgrade.pipe_id] = replace(
+                pipes[upgrade.pipe_id], r_per_length_si=upgrade.r_per_length_si
+            )
+        else:
+            if leakage is None:
+                raise ValueError(f"upgrade '{upgrade.id}': the house has no air-leakage figure")
+            if upgrade.flow50_after_m3_per_s > leakage.flow50_m3_per_s * (1 + 1e-12):
+                raise ValueError(
+                    f"upgrade '{upgrade.id}': the air-sealing target is leakier than the house"
+                )
+            leakage = replace(leakage, flow50_m3_per_s=upgrade.flow50_after_m3_per_s)
+    return replace(
+        house,
+        surfaces=tuple(surfaces.values()),
+        pipe_runs=tuple(pipes.values()),
+        air_leakage=leakage,
+    )
+
+
+@dataclass(frozen=True, slots=True)
+class HouseEnergy:
+    """A year of the house: conductances [W/K], energy [J], fuel [units], money, CO2 [kg]."""
+
+    ua_by_surface_w_per_k: Mapping[str, float]
+    envelope_ua_w_per_k: float
+    infiltration_ua_w_per_k: float
+    ua_w_per_k: float
+    heating_load_j: float
+    pipe_loss_by_run_j: Mapping[str, float]
+    pipe_loss_j: float
+    heating_fuel_units: float
+    heating_cost: float
+    cooling_load_j: float
+    cooling_electricity_kwh: float
+    cooling_cost: float
+    total_cost: float
+    heating_co2_kg: float
+    cooling_co2_kg: float
+    co2_kg: float
+
+
+def heating_co2_per_unit(house: House) -> float:
+    """CO2 per unit of the heating fuel [kg/unit]: override, table, or the electricity factor."""
+    heating = house.heating
+    if heating.co2_kg_per_unit is not None:
+        return heating.co2_kg_per_unit
+    if heating.fuel.co2_kg_per_unit is not None:
+        return heating.fuel.co2_kg_per_unit
+    return house.electricity_co2_kg_per_kwh * heating.fuel.energy_per_unit_j / KWH_J
+
+
+def evaluate(house: House) -> HouseEnergy:
+    """Annual energy, cost and CO2 of ``house`` by the degree-day method [1].
+
+    ``UA = Σ U·A + UA_inf``; heating ``Q = UA·HDD·24 h`` plus pipe losses, bought at the
+    heating system's efficiency; cooling ``Q = UA·CDD·24 h`` (sensible only) at SEER or COP.
+    """
+    by_surface = {s.id: s.u_si * s.area_m2 for s in house.surfaces}
+    envelope = sum(by_surface.values())
+    leak = house.air_leakage
+    infiltration = (
+        0.0
+        if leak is None
+        else energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3)
+    )
+    ua = envelope + infiltration
+    heating_load = energy.degree_day_load(ua, house.climate.hdd_k_day)
+    pipes = {
+        run.id: energy.pipe_annual_loss(
+            run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year
+        )
+        for run in house.pipe_runs
+    }
+    pipe_total = sum(pipes.values())
+    heating = house.heating
+    fuel = energy.fuel_use(
+        heating_load + pipe_total, heating.efficiency, heating.fuel.energy_per_unit_j
+    )
+    heating_co2 = fuel * heating_co2_per_unit(house)
+    cooling_load = cooling_kwh = cooling_cost = 0.0
+    if house.cooling is not None:
+        cooling = house.cooling
+        cooling_load = energy.degree_day_load(ua, house.climate.cdd_k_day)
+        if cooling.seer is not None:
+            electricity_j = energy.cooling_electricity_seer(cooling_load, cooling.seer)
+        elif cooling.cop is not None:
+            electricity_j = energy.cooling_electricity_cop(cooling_load, cooling.cop)
+        else:
+            raise ValueError("the cooling system needs a SEER or a COP")
+        cooling_kwh = electricity_j / KWH_J
+        cooling_cost = cooling_kwh * cooling.electricity_price_per_kwh
+    cooling_co2 = cooling_kwh * house.electricity_co2_kg_per_kwh
+    heating_cost = fuel * heating.price_per_unit
+    return HouseEnergy(
+        ua_by_surface_w_per_k=by_surface,
+        envelope_ua_w_per_k=envelope,
+        infiltration_ua_w_per_k=infiltration,
+        ua_w_per_k=ua,
+        heating_load_j=heating_load,
+        pipe_loss_by_run_j=pipes,
+        pipe_loss_j=pipe_total,
+        heating_fuel_units=fuel,
+        heating_cost=heating_cost,
+        cooling_load_j=cooling_load,
+        cooling_electricity_kwh=cooling_kwh,
+        cooling_cost=cooling_cost,
+        total_cost=heating_cost + cooling_cost,
+        heating_co2_kg=heating_co2,
+        cooling_co2_kg=cooling_co2,
+        co2_kg=heating_co2 + cooling_co2,
+    )
+
+
+@dataclass(frozen=True, slots=True)
+class Step:
+    """One upgrade's share of a package: what it saves on the house with the ones before it."""
+
+    upgrade_id: str
+    annual_savings: float
+    ua_reduction_w_per_k: float
+    co2_avoided_kg: float
+
+
+@dataclass(frozen=True, slots=True)
+class OptionResult:
+    """A package (or one upgrade alone) evaluated as one modified house."""
+
+    id: str
+    upgrade_ids: tuple[str, ...]
+    energy: HouseEnergy
+    appraisal: money.Appraisal
+    co2_avoided_kg: float
+    steps: tuple[Step, ...]
+    warnings: tuple[str, ...] = field(default=())
+
+
+@dataclass(frozen=True, slots=True)
+class Comparison:
+    """As-found house, each upgrade alone (in the given order) and each package."""
+
+    as_found: HouseEnergy
+    upgrades_alone: tuple[OptionResult, ...]
+    packages: tuple[OptionResult, ...]
+
+
+def evaluate_option(
+    house: House, as_found: HouseEnergy, option_id: str, chosen: Sequence[Upgrade]
+) -> OptionResult:
+    """Evaluate ``chosen`` applied together to ``house`` (one modified house), with steps.
+
+    Step i is the saving of upgrade i on the house that already has upgrades 1..i-1 (the
+    listed order); the last step's house is the package's house.
+    """
+    if not chosen:
+        raise ValueError(f"'{option_id}' has no upgrades")
+    warnings: list[str] = []
+    steps: list[Step] = []
+    before = as_found
+    for count, upgrade in enumerate(chosen, start=1):
+        after = evaluate(apply_upgrades(house, chosen[:count]))
+        steps.append(
+            Step(
+                upgrade_id=upgrade.id,
+                annual_savings=before.total_cost - after.total_cost,
+                ua_reduction_w_per_k=before.ua_w_per_k - after.ua_w_per_k,
+                co2_avoided_kg=before.co2_kg - after.co2_kg,
+            )
+        )
+        if before.total_cost - after.total_cost < 0:
+            warnings.append(f"'{upgrade.id}' raises the yearly cost: check its new assembly")
+        life = upgrade.life_years
+        if life is not None and life < house.economics.years:
+            warnings.append(
+                f"'{upgrade.id}' is expected to last {life:g} years, less than the "
+                f"{house.economics.years}-year study period; its savings are counted to the end "
+                "of the period and no replacement cost is included"
+            )
+        before = after
+    package_energy = before
+    savings = as_found.total_cost - package_energy.total_cost
+    econ = house.economics
+    appraisal = money.appraise(
+        installed_cost=sum(u.installed_cost for u in chosen),
+        rebates=sum(u.rebate for u in chosen),
+        annual_savings=savings,
+        discount_rate=econ.discount_rate,
+        escalation_rate=econ.escalation_rate,
+        years=econ.years,
+        loan_apr=econ.loan_apr,
+        loan_months=econ.loan_months,
+    )
+    if appraisal.net_cost < 0:
+        warnings.append("the rebates are larger than the installed cost")
+    return OptionResult(
+        id=option_id,
+        upgrade_ids=tuple(u.id for u in chosen),
+        energy=package_energy,
+        appraisal=appraisal,
+        co2_avoided_kg=as_found.co2_kg - package_energy.co2_kg,
+        steps=tuple(steps),
+        warnings=tuple(warnings),
+    )
+
+
+def compare(house: House, upgrades: Sequence[Upgrade], packages: Sequence[Package]) -> Comparison:
+    """The as-found house, every upgrade alone and every package as one modified house.
+
+    Raises
+    ------
+    ValueError
+        Duplicate upgrade ids, a package naming an unknown upgrade, or any error of
+        :func:`apply_upgrades`.
+    """
+    by_id: dict[str, Upgrade] = {}
+    for upgrade in upgrades:
+        if upgrade.id in by_id:
+            raise ValueError(f"two upgrades are called '{upgrade.id}'")
+        by_id[upgrade.id] = upgrade
+    as_found = evaluate(house)
+    alone = tuple(evaluate_option(house, as_found, u.id, [u]) for u in upgrades)
+    results = []
+    for package in packages:
+        missing = [name for name in package.upgrade_ids if name not in by_id]
+        if missing:
+            raise ValueError(f"package '{package.id}' names unknown upgrades: {', '.join(missing)}")
+        chosen = [by_id[name] for name in package.upgrade_ids]
+        results.append(evaluate_option(house, as_found, package.id, chosen))
+    return Comparison(as_found=as_found, upgrades_alone=alone, packages=tuple(results))

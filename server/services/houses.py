@@ -1,0 +1,278 @@
+"""Saved houses and their surfaces. Every function is scoped by organization."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from typing import Any
+
+from sqlalchemy import func, or_, select
+from sqlalchemy.orm import Session, selectinload
+
+from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.common import Units
+from server.errors import InputError
+from server.models import House, Organization, Surface, utcnow
+from server.services.assembly import evaluate_assembly
+from server.services.catalog import Catalog
+from server.services.typical import typical_assemblies
+
+SURFACE_KINDS = {
+    "ceiling": "Attic floor / ceiling",
+    "cathedral": "Cathedral roof",
+    "wall": "Wall",
+    "kneewall": "Kneewall",
+    "rim_joist": "Rim joist",
+    "floor": "Floor over unheated space",
+    "basement_wall": "Basement wall",
+    "door": "Door",
+    "window": "Window",
+}
+DEFAULT_HEAT_FLOW = {"ceiling": "up", "cathedral": "up", "floor": "down"}
+
+
+class NotFound(Exception):
+    """The object does not exist for this organization (shown as 404, never 403)."""
+
+
+@dataclass
+class Conflict(Exception):
+    """Someone else saved the house since this form was loaded."""
+
+    current_version: int
+
+
+def default_organization(*, session: Session) -> Organization:
+    """The firm used before accounts exist: the first one, created on demand."""
+    org = session.scalars(select(Organization).order_by(Organization.id).limit(1)).first()
+    if org is None:
+        org = Organization(name="Our firm")
+        session.add(org)
+        session.flush()
+    return org
+
+
+def list_houses(
+    *, session: Session, organization_id: int, query: str = ""
+) -> list[tuple[House, int]]:
+    """The firm's houses (newest first) with their surface counts; ``query`` filters by text."""
+    count = (
+        select(Surface.house_id, func.count(Surface.id).label("n"))
+        .group_by(Surface.house_id)
+        .subquery()
+    )
+    stmt = (
+        select(House, func.coalesce(count.c.n, 0))
+        .outerjoin(count, count.c.house_id == House.id)
+        .where(House.organization_id == organization_id)
+        .order_by(House.updated_at.desc(), House.id.desc())
+    )
+    if query.strip():
+        like = f"%{query.strip()}%"
+        stmt = stmt.where(or_(House.label.ilike(like), House.address.ilike(like)))
+    return [(h, n) for h, n in session.execute(stmt).all()]
+
+
+def get_house(*, session: Session, organization_id: int, house_id: int) -> House:
+    house = session.scalars(
+        select(House)
+        .where(House.id == house_id, House.organization_id == organization_id)
+        .options(selectinload(House.surfaces))
+    ).first()
+    if house is None:
+        raise NotFound
+    return house
+
+
+def get_surface(
+    *, session: Session, organization_id: int, house_id: int, surface_id: int
+) -> Surface:
+    surface = session.scalars(
+        select(Surface)
+        .join(House)
+        .where(
+            Surface.id == surface_id,
+            Surface.house_id == house_id,
+            House.organization_id == organization_id,
+        )
+    ).first()
+    if surface is None:
+        raise NotFound
+    return surface
+
+
+def create_house(
+    *, session: Session, organization_id: int, label: str, address: str = "", units: Units = "ip"
+) -> House:
+    label = label.strip()
+    if not label:
+        raise InputError("label", "give the house a name, e.g. the street address or the owner")
+    if units not in ("ip", "si"):
+        raise InputError("units", "units must be ip or si")
+    house = House(
+        organization_id=organization_id,
+        label=label[:200],
+        address=address.strip()[:300],
+        units=units,
+        climate={},
+        heating={},
+        economics={},
+    )
+    session.add(house)
+    session.flush()
+    return house
+
+
+def check_version(house: House, expected_version: int | None) -> None:
+    """Raise :class:`Conflict` when the form was loaded from an older version of the house."""
+    if expected_version is not None and expected_version != house.version:
+        raise Conflict(house.version)
+
+
+def touch(house: House) -> None:
+    """Mark the house changed: bumps ``version`` (optimistic lock) and ``updated_at``."""
+    house.updated_at = utcnow()
+
+
+def _slug(text: str, taken: set[str]) -> str:
+    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or "surface"
+    slug, n = base, 2
+    while slug in taken:
+        slug, n = f"{base}-{n}", n + 1
+    return slug
+
+
+def add_surface(
+    *,
+    session: Session,
+    house: House,
+    name: str,
+    kind: str,
+    area: float,
+    typical: str | None = None,
+    expected_version: int | None = None,
+) -> Surface:
+    """Add a surface, optionally starting from a typical assembly."""
+    check_version(house, expected_version)
+    found = typical_assemblies().get(typical) if typical else None
+    if typical and found is None:
+        raise InputError("typical", "there is no such typical assembly")
+    kind = kind or (found.kind if found else "")
+    if kind not in SURFACE_KINDS:
+        raise InputError("kind", "choose what kind of surface this is")
+    if not (area > 0 and area < 1e7):
+        raise InputError("area", "must be greater than zero")
+    units: Units = house.units  # type: ignore[assignment]
+    if found is not None:
+        assembly = found.assembly(units).model_dump(exclude_none=True)
+        name = name.strip() or found.label
+    else:
+        assembly = {
+            "heat_flow": DEFAULT_HEAT_FLOW.get(kind, "horizontal"),
+            "films": "ashrae",
+            "layers": [{"name": "as found", "r": 1.0}],
+        }
+    name = name.strip() or SURFACE_KINDS[kind]
+    surface = Surface(
+        house=house,
+        position=len(house.surfaces),
+        slug=_slug(name, {s.slug for s in house.surfaces}),
+        name=name[:200],
+        kind=kind,
+        area=area,
+        assembly=assembly,
+    )
+    session.add(surface)
+    touch(house)
+    session.flush()
+    return surface
+
+
+def save_assembly(
+    *,
+    session: Session,
+    house: House,
+    surface: Surface,
+    assembly: dict[str, Any],
+    catalog: Catalog,
+    expected_version: int | None,
+) -> AssemblyResult:
+    """Validate, compute and save a surface's assembly. Nothing is saved if it cannot compute."""
+    check_version(house, expected_version)
+    doc = AssemblyInput.model_validate(assembly)
+    result = evaluate_assembly(doc, units=house.units, catalog=catalog, field="assembly")  # type: ignore[arg-type]
+    surface.assembly = doc.model_dump(exclude_none=True)
+    touch(house)
+    session.flush()
+    return result
+
+
+def update_surface(
+    *, session: Session, house: House, surface: Surface, name: str, kind: str, area: float,
+    expected_version: int | None,
+) -> None:  # fmt: skip
+    check_version(house, expected_version)
+    if kind not in SURFACE_KINDS:
+        raise InputError("kind", "choose what kind of surface this is")
+    if not (area > 0 and area < 1e7):
+        raise InputError("area", "must be greater than zero")
+    surface.name = (name.strip() or SURFACE_KINDS[kind])[:200]
+    surface.kind = kind
+    surface.area = area
+    touch(house)
+    session.flush()
+
+
+def delete_surface(
+    *, session: Session, house: House, surface: Surface, expected_version: int | None
+) -> None:
+    check_version(house, expected_version)
+    session.delete(surface)
+    touch(house)
+    session.flush()
+
+
+@dataclass
+class SurfaceRow:
+    surface: Surface
+    result: AssemblyResult | None
+    ua: float | None
+    share: float | None
+    error: str | None
+
+
+def surface_rows(house: House, catalog: Catalog) -> tuple[list[SurfaceRow], float]:
+    """Each surface with its R, U, UA (U × area) and share of the envelope UA."""
+    rows: list[SurfaceRow] = []
+    for surface in house.surfaces:
+        try:
+            result = evaluate_assembly(
+                AssemblyInput.model_validate(surface.assembly),
+                units=house.units,  # type: ignore[arg-type]
+                catalog=catalog,
+            )
+        except (InputError, ValueError) as exc:
+            rows.append(SurfaceRow(surface, None, None, None, str(exc)))
+            continue
+        rows.append(SurfaceRow(surface, result, result.u_factor * surface.area, None, None))
+    total = sum(r.ua or 0.0 for r in rows)
+    for row in rows:
+        if row.ua is not None and total > 0:
+            row.share = row.ua / total
+    return rows, total
+
+
+def switch_units(
+    *, session: Session, house: House, units: Units, expected_version: int | None
+) -> None:
+    """Convert every stored number of the house to the other unit system."""
+    from server.services.convert import convert_assembly, convert_value
+
+    check_version(house, expected_version)
+    src: Units = house.units  # type: ignore[assignment]
+    for surface in house.surfaces:
+        surface.assembly = convert_assembly(surface.assembly, src, units)
+        surface.area = convert_value(surface.area, "area", src, units)
+    house.units = units
+    touch(house)
+    session.flush()

@@ -1,0 +1,9 @@
+"""The one registry of HTML routes."""
+
+from fastapi import APIRouter
+
+from server.web.routes import houses, library, surfaces
+
+web_router = APIRouter(include_in_schema=False)
+for module in (houses, surfaces, library):
+    web_router.include_router(module.router)

@@ -1,0 +1,129 @@
+"""Houses list and House page."""
+
+from __future__ import annotations
+
+from fastapi import APIRouter, Form, Request
+from fastapi.responses import RedirectResponse
+
+from server.errors import InputError
+from server.services import houses as svc
+from server.services.library import catalog_for
+from server.services.typical import typical_assemblies
+from server.web.deps import OrgDep, SessionDep, render
+from server.web.forms import parse_float
+
+router = APIRouter()
+
+
+@router.get("/")
+def home() -> RedirectResponse:
+    return RedirectResponse("/houses", status_code=303)
+
+
+@router.get("/houses", name="houses")
+def houses_page(request: Request, session: SessionDep, org: OrgDep, q: str = ""):  # type: ignore[no-untyped-def]
+    rows = svc.list_houses(session=session, organization_id=org.id, query=q)
+    template = (
+        "partials/house_list.html" if request.headers.get("HX-Request") else "pages/houses.html"
+    )
+    return render(request, template, {"rows": rows, "q": q, "form": {}, "errors": {}})
+
+
+@router.post("/houses")
+def create_house(  # type: ignore[no-untyped-def]
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    label: str = Form(""),
+    address: str = Form(""),
+    units: str = Form("ip"),
+):
+    try:
+        house = svc.create_house(
+            session=session,
+            organization_id=org.id,
+            label=label,
+            address=address,
+            units=units,  # type: ignore[arg-type]
+        )
+    except InputError as exc:
+        rows = svc.list_houses(session=session, organization_id=org.id)
+        form = {"label": label, "address": address, "units": units}
+        return render(
+            request, "pages/houses.html",
+            {"rows": rows, "q": "", "form": form, "errors": {exc.field: exc.message}}, status_code=422,
+        )  # fmt: skip
+    return RedirectResponse(f"/houses/{house.id}", status_code=303)
+
+
+def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    catalog = catalog_for(session=session, organization_id=org.id)
+    rows, total_ua = svc.surface_rows(house, catalog)
+    return {
+        "house": house,
+        "rows": rows,
+        "total_ua": total_ua,
+        "kinds": svc.SURFACE_KINDS,
+        "typicals": typical_assemblies(),
+        "form": {},
+        "errors": {},
+    }
+
+
+@router.get("/houses/{house_id}", name="house")
+def house_page(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+    return render(request, "pages/house.html", _house_context(session, org, house_id))
+
+
+@router.post("/houses/{house_id}/surfaces")
+def add_surface(  # type: ignore[no-untyped-def]
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    house_id: int,
+    name: str = Form(""),
+    kind: str = Form("wall"),
+    area: str = Form(""),
+    typical: str = Form(""),
+    version: int | None = Form(None),
+):
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    errors: dict[str, str] = {}
+    area_value = parse_float(area, "area", errors)
+    if typical and typical in typical_assemblies() and not kind:
+        kind = typical_assemblies()[typical].kind
+    if not errors:
+        try:
+            surface = svc.add_surface(
+                session=session, house=house, name=name, kind=kind, area=area_value or 0.0,
+                typical=typical or None, expected_version=version,
+            )  # fmt: skip
+            return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
+        except InputError as exc:
+            errors[exc.field] = exc.message
+        except svc.Conflict:
+            errors["form"] = (
+                "Someone else changed this house since you opened it. Your entry is kept below; "
+                "check the list and add it again."
+            )
+    context = _house_context(session, org, house_id)
+    context["form"] = {"name": name, "kind": kind, "area": area, "typical": typical}
+    context["errors"] = errors
+    return render(
+        request, "pages/house.html", context, status_code=422 if "form" not in errors else 409
+    )
+
+
+@router.post("/houses/{house_id}/units")
+def switch_units(  # type: ignore[no-untyped-def]
+    session: SessionDep,
+    org: OrgDep,
+    house_id: int,
+    units: str = Form(...),
+    version: int | None = Form(None),
+):
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    if units in ("ip", "si") and units != house.units:
+        svc.switch_units(session=session, house=house, units=units, expected_version=version)  # type: ignore[arg-type]
+    return RedirectResponse(f"/houses/{house.id}", status_code=303)

@@ -1,0 +1,188 @@
+"""Surface page: the layer editor (one form; htmx swaps the editor fragment)."""
+
+from __future__ import annotations
+
+from fastapi import APIRouter, Request
+from fastapi.responses import RedirectResponse
+
+from server.documents.assembly import AssemblyInput
+from server.errors import InputError
+from server.services import houses as svc
+from server.services.assembly import evaluate_assembly
+from server.services.library import catalog_for, list_materials
+from server.services.typical import typical_assemblies
+from server.web.deps import OrgDep, SessionDep, render
+from server.web.forms import parse_float
+from server.web.layer_form import (
+    CAVITY_TYPES,
+    LAYER_TYPES,
+    AssemblyForm,
+    LayerForm,
+    attach_error,
+    document_from_form,
+    form_from_document,
+    form_from_post,
+)
+
+router = APIRouter()
+MAX_LAYERS = 40
+
+
+def _context(session, org, house, surface, form: AssemblyForm, result, message: str = "") -> dict:  # type: ignore[no-untyped-def]
+    return {
+        "house": house,
+        "surface": surface,
+        "form": form,
+        "result": result,
+        "message": message,
+        "layer_types": LAYER_TYPES,
+        "cavity_types": CAVITY_TYPES,
+        "materials": list_materials(session=session, organization_id=org.id),
+        "kinds": svc.SURFACE_KINDS,
+        "typicals": typical_assemblies(),
+        "units": house.units,
+    }
+
+
+def _load(session, org, house_id: int, surface_id: int):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    surface = svc.get_surface(
+        session=session, organization_id=org.id, house_id=house_id, surface_id=surface_id
+    )
+    return house, surface
+
+
+@router.get("/houses/{house_id}/surfaces/{surface_id}", name="surface")
+def surface_page(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
+):  # type: ignore[no-untyped-def]
+    house, surface = _load(session, org, house_id, surface_id)
+    catalog = catalog_for(session=session, organization_id=org.id)
+    form = form_from_document(surface.assembly, house.units)
+    try:
+        result = evaluate_assembly(
+            AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
+        )
+    except (InputError, ValueError):
+        result = None
+    return render(
+        request, "pages/surface.html", _context(session, org, house, surface, form, result)
+    )
+
+
+def _apply_action(form: AssemblyForm, action: str) -> str:
+    """Add / remove / move a layer in the form. Returns a short message for the screen reader."""
+    verb, _, index_text = action.partition(":")
+    try:
+        index = int(index_text) if index_text else -1
+    except ValueError:
+        return ""
+    layers = form.layers
+    if verb == "add" and len(layers) < MAX_LAYERS:
+        layers.append(LayerForm({"type": "r", "name": "", "r": ""}))
+        return "Layer added at the inside face; fill in its R."
+    if verb == "remove" and 0 <= index < len(layers):
+        removed = layers.pop(index)
+        return f"Removed {removed.get('name') or f'layer {index + 1}'}."
+    if verb == "up" and 0 < index < len(layers):
+        layers[index - 1], layers[index] = layers[index], layers[index - 1]
+        return f"Moved layer {index + 1} out one place."
+    if verb == "down" and 0 <= index < len(layers) - 1:
+        layers[index + 1], layers[index] = layers[index], layers[index + 1]
+        return f"Moved layer {index + 1} in one place."
+    return ""
+
+
+@router.post("/houses/{house_id}/surfaces/{surface_id}/assembly")
+async def save_assembly(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
+):  # type: ignore[no-untyped-def]
+    house, surface = _load(session, org, house_id, surface_id)
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    try:
+        count = min(int(data.get("layer_count", "0")), MAX_LAYERS)
+        version = int(data["version"]) if data.get("version") else None
+    except ValueError:
+        count, version = 0, None
+    form = form_from_post(data, count)
+    action = data.get("action", "")
+    if action.startswith("typical:") and action[8:] in typical_assemblies():
+        typical = typical_assemblies()[action[8:]]
+        form = form_from_document(
+            typical.assembly(house.units).model_dump(exclude_none=True), house.units
+        )
+        message = f"Replaced the layers with: {typical.label}."
+    else:
+        message = _apply_action(form, action)
+    catalog = catalog_for(session=session, organization_id=org.id)
+    result = None
+    status = 200
+    doc = document_from_form(form, house.units)
+    if doc is not None:
+        try:
+            result = svc.save_assembly(
+                session=session, house=house, surface=surface, assembly=doc, catalog=catalog,
+                expected_version=version,
+            )  # fmt: skip
+            message = message or "Saved."
+        except InputError as exc:
+            for err in exc.errors():
+                attach_error(form, err.field, err.message)
+            status = 422
+        except svc.Conflict:
+            form.errors["version"] = (
+                "Someone else saved this house after you opened it, so nothing was saved. "
+                "Your entries are kept here: reload to see theirs, then enter yours again."
+            )
+            status = 409
+    else:
+        status = 422
+    if status != 200:
+        message = "Not saved: check the fields marked below."
+    if not request.headers.get("HX-Request") and status == 200:
+        return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
+    template = (
+        "partials/layer_editor.html" if request.headers.get("HX-Request") else "pages/surface.html"
+    )
+    # htmx swaps 200 responses only by default: return 200 with the messages in the fragment.
+    code = 200 if request.headers.get("HX-Request") else status
+    return render(
+        request,
+        template,
+        _context(session, org, house, surface, form, result, message),
+        status_code=code,
+    )
+
+
+@router.post("/houses/{house_id}/surfaces/{surface_id}")
+async def update_surface(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
+):  # type: ignore[no-untyped-def]
+    house, surface = _load(session, org, house_id, surface_id)
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    version = int(data["version"]) if data.get("version", "").isdigit() else None
+    if data.get("action") == "delete":
+        svc.delete_surface(session=session, house=house, surface=surface, expected_version=version)
+        return RedirectResponse(f"/houses/{house.id}", status_code=303)
+    errors: dict[str, str] = {}
+    area = parse_float(data.get("area", ""), "area", errors)
+    if not errors:
+        try:
+            svc.update_surface(
+                session=session, house=house, surface=surface, name=data.get("name", ""),
+                kind=data.get("kind", surface.kind), area=area or 0.0, expected_version=version,
+            )  # fmt: skip
+        except InputError as exc:
+            errors[exc.field] = exc.message
+        except svc.Conflict:
+            errors["form"] = "Someone else saved this house after you opened it; nothing was saved."
+    if errors:
+        catalog = catalog_for(session=session, organization_id=org.id)
+        form = form_from_document(surface.assembly, house.units)
+        result = evaluate_assembly(
+            AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
+        )
+        ctx = _context(session, org, house, surface, form, result)
+        ctx["detail_errors"], ctx["detail_form"] = errors, data
+        return render(request, "pages/surface.html", ctx, status_code=422)
+    return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
