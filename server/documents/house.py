@@ -26,7 +26,7 @@ from __future__ import annotations
 
 from typing import Annotated, Literal
 
-from pydantic import Field, model_validator
+from pydantic import Field, ValidationInfo, field_validator, model_validator
 
 from server.documents.assembly import AssemblyInput
 from server.documents.common import Name, Number, Out, Positive, Strict, Units
@@ -78,14 +78,16 @@ class HeatingIn(Strict):
         default=None, description="kg CO2 per fuel unit; omitted = the fuel table's factor"
     )
 
-    @model_validator(mode="after")
-    def _efficiency_meaning(self) -> HeatingIn:
-        if self.fuel != "heat_pump" and self.efficiency > 1:
+    @field_validator("efficiency")
+    @classmethod
+    def _efficiency_meaning(cls, value: float, info: ValidationInfo) -> float:
+        fuel = info.data.get("fuel")
+        if fuel is not None and fuel != "heat_pump" and value > 1:
             raise ValueError(
-                f"the efficiency of {self.fuel} is a fraction of at most 1 (0.80 for 80 %); "
+                f"for {fuel} give the efficiency as a fraction of at most 1 (0.80 for 80 %); "
                 "only a heat pump takes a COP above 1"
             )
-        return self
+        return value
 
 
 class CoolingIn(Strict):

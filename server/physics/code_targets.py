@@ -106,7 +106,7 @@ def _zone_number(climate_zone: int | str) -> tuple[int, bool]:
     """(zone number, is marine zone 4) from 5, "5", "5A", "4C" or "Zone 4C"."""
     text = str(climate_zone).strip().upper().removeprefix("ZONE").strip()
     digits = text[:1]
-    if not digits.isdigit() or text[1:] not in ("", "A", "B", "C"):
+    if digits not in "012345678" or not digits or text[1:] not in ("", "A", "B", "C"):
         raise ValueError("a climate zone looks like 5, 5A or 4C (0 to 8, then A, B or C)")
     return int(digits), text == "4C"
 

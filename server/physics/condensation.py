@@ -248,7 +248,8 @@ def _geometry(layers: Sequence[VapourLayer], sds: list[float], rse: float) -> li
     widths = [layer.thickness_m for layer in layers]
     known = all(width is not None for width in widths)
     name = [layer.name.strip() or f"layer {k + 1}" for k, layer in enumerate(layers)]
-    rows: list[_Row] = [("outside surface", f"outside face of the {name[0]}", 0, 0.0, rse, 0.0)]
+    first = f"outside face of the {name[0]}"
+    rows: list[_Row] = [("outside surface", first, 0, 0.0 if known else None, rse, 0.0)]
     r_cum, sd_cum, x_cum = rse, 0.0, 0.0
     for k, layer in enumerate(layers):
         r_layer, width = layer.thermal_resistance_m2k_w, widths[k] or 0.0
@@ -257,9 +258,9 @@ def _geometry(layers: Sequence[VapourLayer], sds: list[float], rse: float) -> li
             share = j / parts
             at = (x_cum + share * width) if known else None
             if j < parts:
-                kind, label = "within layer", (
-                    f"{round(100 * share)} % of the way through the {name[k]} from its outside face"
-                )  # fmt: skip
+                percent = round(100 * share)
+                kind = "within layer"
+                label = f"{percent} % of the way through the {name[k]} from its outside face"
             elif k + 1 < len(layers):
                 kind, label = (
                     "interface",
@@ -371,14 +372,16 @@ def glaser_check(
         s = row[5]
         vapour = p_out if s <= tol else p_in if s >= sd_total - tol else _interpolate(hull, s)
         dew = dew_point_from_vapour_pressure_c(max(lines[n], 0.0))
-        planes.append(
-            Plane(n, row[0], row[1], row[2], row[3], row[4], s, temps[n], psats[n], lines[n],
-                  vapour, dew, None if dew is None else temps[n] - dew, lines[n] > psats[n])
-        )  # fmt: skip
+        margin = None if dew is None else temps[n] - dew
+        flagged = lines[n] > psats[n]
+        planes.append(Plane(n, *row, temps[n], psats[n], lines[n], vapour, dew, margin, flagged))
 
     notes = [SCREENING_NOTE]
-    floored = [f"the {layer.name.strip() or f'layer {k + 1}'}" for k, layer in enumerate(layers)
-               if sds[k] > layer.sd_m]  # fmt: skip
+    floored = [
+        f"the {layer.name.strip() or f'layer {k + 1}'}"
+        for k, layer in enumerate(layers)
+        if sds[k] > layer.sd_m
+    ]
     if floored:
         notes.append(
             "Taken as resisting vapour like still air of the same thickness (sd = thickness): "
@@ -461,8 +464,11 @@ def summary_words(result: CondensationResult, *, units: UnitSystem = "si") -> li
     for found in result.condensation_planes:
         plane = result.planes[found.plane_index]
         toward_room = result.total_sd_m - plane.cumulative_sd_m
-        near, far = (toward_room, plane.cumulative_sd_m) if from_room else (
-            plane.cumulative_sd_m, toward_room)  # fmt: skip
+        near, far = (
+            (toward_room, plane.cumulative_sd_m)
+            if from_room
+            else (plane.cumulative_sd_m, toward_room)
+        )
         source, side = ("the room", "room") if from_room else ("outdoors", "outdoor")
         dew = "" if plane.dew_point_c is None else f" (dew point {_temp(plane.dew_point_c, units)})"
         words.append(
@@ -485,8 +491,9 @@ def summary_words(result: CondensationResult, *, units: UnitSystem = "si") -> li
         )
     elif others:
         words.append(
-            f"The vapour pressure is above saturation at {len(others)} plane(s) that touch the "
-            f"air with no vapour resistance between (the {others[0].label}); no rate is given."
+            f"The vapour pressure is at or just above saturation at {len(others)} plane(s) "
+            f"(the {others[0].label}) with no condensation rate worth stating: the plane meets "
+            "the air with no vapour resistance between, or the excess is negligible."
         )
     for plane, face, where in (
         (result.planes[-1], result.inside_surface_condensation, "room"),

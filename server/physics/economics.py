@@ -171,7 +171,8 @@ def monthly_loan_payment(principal: float, apr: float, term_months: int) -> floa
     monthly_rate = apr / 12.0
     if monthly_rate == 0.0:
         return principal / term_months
-    return principal * monthly_rate / (1.0 - (1.0 + monthly_rate) ** -term_months)
+    # 1 - (1 + i)^-n written with log1p/expm1 so that a tiny rate keeps its precision
+    return principal * monthly_rate / -math.expm1(-term_months * math.log1p(monthly_rate))
 
 
 @dataclass(frozen=True, slots=True)

@@ -9,7 +9,15 @@ from __future__ import annotations
 from server.documents.pipe import PipeLayerOut, PipeRequest, PipeResult
 from server.errors import InputError
 from server.physics import pipe as physics
-from server.physics.units import BTU_J, BTU_PER_HOUR_W, from_si, temp_from_c, temp_to_c, to_si
+from server.physics.units import (
+    BTU_J,
+    BTU_PER_HOUR_W,
+    UnitSystem,
+    from_si,
+    temp_from_c,
+    temp_to_c,
+    to_si,
+)
 
 _MM_M = 1e-3  # the API's SI thickness and diameter are in mm; physics takes m
 
@@ -33,8 +41,8 @@ def _field(error: ValueError, default: str, prefix: str = "") -> str:
     return prefix + _FIELDS[parameter] if parameter in _FIELDS else default
 
 
-def _mm_m(value: float, quantity: str, units: str) -> float:
-    return to_si(value, quantity, units) * _MM_M  # type: ignore[arg-type]
+def _mm_m(value: float, quantity: str, units: UnitSystem) -> float:
+    return to_si(value, quantity, units) * _MM_M
 
 
 def _build_run(request: PipeRequest) -> physics.PipeRun:

@@ -27,6 +27,7 @@ import csv
 import math
 import re
 import statistics
+from collections import Counter
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import date, datetime
@@ -94,6 +95,7 @@ class _Raw:
     station: str | None = None
     skipped: int = 0  # rows that could not be read at all
     markers: int = 0  # values equal to the format's missing-value marker
+    sub_hourly: bool = False  # some stamps fall between whole hours
 
 
 def _fail(message: str, field_name: str = "file") -> InputError:
@@ -101,7 +103,7 @@ def _fail(message: str, field_name: str = "file") -> InputError:
 
 
 def _decode(data: bytes) -> str:
-    if not data or not data.strip():
+    if not data or (not data[:4096].strip() and not data.strip()):
         raise _fail("the file is empty")
     if data[:2] == b"PK":
         raise _fail("the file is a ZIP archive: unzip it and upload the .epw or .csv inside")
@@ -145,18 +147,20 @@ def _day_number(year: str | int, month: str | int, day: str | int) -> int | None
         return None
 
 
-def _fields_pattern(indices: Sequence[int]) -> re.Pattern[str]:
-    """A regex capturing the given 0-based comma-separated fields of each line, in order."""
-    parts, skip, last = ["^"], 0, max(indices)
-    for index in range(last + 1):
-        if index not in indices:
-            skip += 1
-            continue
-        if skip:
-            parts.append(f"(?:[^,\\n]*+,){{{skip}}}")
-            skip = 0
-        parts.append("([^,\\n]*+)" + ("," if index < last else ""))
-    parts.append("[^\\n]*+")
+def _fields_pattern(groups: Sequence[Sequence[int]]) -> re.Pattern[str]:
+    """A regex capturing, per line, each group of adjacent 0-based comma-separated fields.
+
+    ``[[0, 1, 2], [6]]`` captures ``"2001,1,31"`` and field 6: one string per group, so the
+    captured keys hash fast and repeat (one distinct date string per day).
+    """
+    parts, at = ["^"], 0
+    for group in groups:
+        if group[0] > at:
+            parts.append(f"(?:[^,\\n]*+,){{{group[0] - at}}}")
+        parts.append("(" + ",".join(["[^,\\n]*+"] * len(group)) + ")")
+        at = group[-1] + 1
+        parts.append(",")
+    parts[-1] = "[^\\n]*+"
     return re.compile("".join(parts), re.MULTILINE)
 
 
@@ -171,7 +175,6 @@ def _assemble(
     marker: float,
 ) -> _Raw:
     """Stamps from day and clock keys, each mapped once through a cache (few are distinct)."""
-    lines = body.count("\n") + 1 - body.count("\n\n") - body.endswith("\n")
     days = {key: day_of(key) for key in set(day_keys)}
     clocks = {key: minute_of(key) for key in set(clock_keys)}
     values = _floats(temperatures)
@@ -186,8 +189,19 @@ def _assemble(
     stamps = [days[d] * 1440 + clocks[c] for d, c in zip(day_keys, clock_keys, strict=True)]  # type: ignore[operator]
     if not stamps:
         raise _fail(f"the {kind.upper()} file has no data rows that can be read")
-    skipped = max(0, lines - len(stamps))
-    return _Raw(kind, stamps, values, True, skipped=skipped, markers=values.count(marker))
+    lines = body.rstrip().count("\n") + 1
+    if lines != len(stamps):  # something was not read: count the non-blank lines exactly
+        lines = sum(1 for line in body.splitlines() if line.strip())
+    sub_hourly = any(minute % 60 for minute in clocks.values() if minute is not None)
+    return _Raw(
+        kind,
+        stamps,
+        values,
+        True,
+        skipped=max(0, lines - len(stamps)),
+        markers=values.count(marker),
+        sub_hourly=sub_hourly,
+    )
 
 
 def _hour_ending(hour_text: str, minute_text: str = "0") -> int | None:
@@ -203,18 +217,18 @@ def _read_epw(text: str) -> _Raw:
     parts = text.split("\n", 8)
     if len(parts) < 9 or not parts[8].strip():
         raise _fail("the EPW file has no data rows after its 8 header lines")
-    rows = _fields_pattern([0, 1, 2, 3, 4, 6]).findall(parts[8])
+    rows = _fields_pattern([[0, 1, 2], [3, 4], [6]]).findall(parts[8])
     if not rows:
         raise _fail("the EPW file has no data rows that can be read")
-    years, months, days, hours, minutes, temperatures = zip(*rows, strict=True)
+    days, clocks, temperatures = zip(*rows, strict=True)
     raw = _assemble(
         "epw",
         parts[8],
-        list(zip(years, months, days, strict=True)),
-        list(zip(hours, minutes, strict=True)),
+        days,
+        clocks,
         temperatures,
-        lambda key: _day_number(*key),  # type: ignore[misc]
-        lambda key: _hour_ending(*key),  # type: ignore[misc]
+        lambda key: _day_number(*str(key).split(",")),
+        lambda key: _hour_ending(*str(key).split(",")),
         99.9,  # missing dry-bulb marker, EPW data dictionary
     )
     location = parts[0].split(",")
@@ -237,7 +251,7 @@ def _read_tmy3(text: str) -> _Raw:
         raise _fail("the TMY3 file has no 'Dry-bulb (C)', date or time column") from None
     if wanted != sorted(wanted):
         raise _fail("the TMY3 file's date, time and dry-bulb columns are out of order")
-    rows = _fields_pattern(wanted).findall(body)
+    rows = _fields_pattern([[i] for i in wanted]).findall(body)
     if not rows:
         raise _fail("the TMY3 file has no data rows that can be read")
     dates, times, temperatures = zip(*rows, strict=True)
@@ -420,8 +434,8 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
         if unit is None:
             unit = default_unit
             notes.append(
-                f"the temperature column '{names[temp_cols[0]]}' names no unit; its values were "
-                f"read as °{unit}; send temperature_unit to say otherwise"
+                f"the temperature column {' and '.join(repr(names[i]) for i in temp_cols)} names "
+                f"no unit; its values were read as °{unit}; send temperature_unit to say otherwise"
             )
     layout, time_cols = _time_layout(names)
     body = [line for line in lines[header_at + 1 :] if line.strip()]
@@ -475,7 +489,13 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
     ]
     skipped += len(rows) - len(keep)
     if not keep:
-        raise _fail(NOT_WEATHER if rows else "the file has a header but no data rows")
+        if not rows:
+            raise _fail("the file has a header but no data rows")
+        where = " and ".join(f"'{names[i]}'" for i in time_cols[:2])
+        raise _fail(
+            f"the dates in {where} could not be read; write them like 2024-01-31 13:00 or "
+            "01/31/2024 13:00"
+        )
     ordinals = [days[day_keys[i]] for i in keep]
     minutes = [clocks[clock_keys[i]] for i in keep]
     values = [values[i] for i in keep]
@@ -491,7 +511,7 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
             "timestamps were read as hour-ending (the file runs 01:00 to 24:00 or 00:00), so "
             "each value counts toward the hour before its stamp"
         )
-    return _Raw("csv-hourly", stamps, values, True, notes, skipped=skipped)
+    return _Raw("csv-hourly", stamps, values, True, notes, skipped=skipped, sub_hourly=not on_hour)
 
 
 def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], list[float]]:
@@ -515,7 +535,7 @@ def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], list[float]
             "implausible"
         )
     if not values:
-        raise _fail("the file has no usable temperatures")
+        raise _fail("the file has no usable temperatures: " + "; ".join(notes))
     return stamps, values
 
 
@@ -529,7 +549,7 @@ def _dedupe(raw: _Raw, stamps: list[int], values: list[float], notes: list[str])
             "found; the first value of each was kept"
         )
         stamps, values = list(first), list(first.values())
-    if raw.hourly and any(s % 60 for s in stamps):
+    if raw.sub_hourly:
         sums: dict[int, list[float]] = {}
         for stamp, value in zip(stamps, values, strict=True):
             sums.setdefault(stamp - stamp % 60, []).append(value)
@@ -553,36 +573,39 @@ def _finish(raw: _Raw) -> WeatherSeries:
             composite = True
             break
         previous = ordinal
+    calendar = {o: o * per_day for o in days}
     if composite:
         notes.append(
             f"the file mixes years ({years[0]}–{years[-1]}), as typical-year files do: each "
             "month may come from a different year, and the results describe that typical year"
         )
         leap = any(d.month == 2 and d.day == 29 for d in days.values())
-        calendar = {
+        calendar = {  # place each day in one reference year to look for gaps
             o: date(2000 if leap else 2001, d.month, d.day).toordinal() * per_day
             for o, d in days.items()
         }
-        positions = [calendar[o] + s % per_day for o, s in zip(ordinals, stamps, strict=True)]
     else:
         if stamps != sorted(stamps):
             pairs = sorted(zip(stamps, values, strict=True))
             stamps, values = [p[0] for p in pairs], [p[1] for p in pairs]
             ordinals = [s // per_day for s in stamps] if raw.hourly else stamps
-        positions = stamps
         span = ordinals[-1] - ordinals[0] + 1
         if span > 366:
             notes.append(
                 f"the file covers {span:,} days, more than a year: totals are for the whole "
                 "period, not per year"
             )
-    _note_gaps(positions, stamps, raw.hourly, notes)
-    count, full = (
-        len(values),
-        ((8760, 8784), "hours", "8,760 (8,784") if raw.hourly else ((365, 366), "days", "365 (366"),
-    )
-    if count not in full[0]:
-        notes.append(f"the file has {count:,} {full[1]}; a full year has {full[2]} in a leap year)")
+    per_day_counts = Counter(ordinals)
+    starts = sorted(calendar.values())
+    whole_days = not raw.hourly or all(n == 24 for n in per_day_counts.values())
+    if not (whole_days and starts[-1] - starts[0] == (len(starts) - 1) * per_day):
+        positions = [calendar[o] + s % per_day for o, s in zip(ordinals, stamps, strict=True)]
+        _note_gaps(positions, stamps, raw.hourly, notes)
+    count = len(values)
+    if raw.hourly and count not in (8760, 8784):
+        notes.append(f"the file has {count:,} hours; a full year has 8,760 (8,784 in a leap year)")
+    elif not raw.hourly and count not in (365, 366):
+        notes.append(f"the file has {count:,} days; a full year has 365 (366 in a leap year)")
     return WeatherSeries(
         kind=raw.kind,
         dates=tuple(map(days.__getitem__, ordinals)),
@@ -601,8 +624,8 @@ def _label(stamp: int, hourly: bool) -> str:
 def _note_gaps(positions: list[int], stamps: list[int], hourly: bool, notes: list[str]) -> None:
     ordered = sorted(set(positions))
     unit = 60 if hourly else 1
-    if len(ordered) < 2 or ordered[-1] - ordered[0] == (len(ordered) - 1) * unit:
-        return  # evenly spaced at one hour (or one day): no gaps
+    if len(ordered) < 2:
+        return
     diffs = [b - a for a, b in zip(ordered, ordered[1:], strict=False)]
     step = unit
     if hourly:
@@ -612,7 +635,7 @@ def _note_gaps(positions: list[int], stamps: list[int], hourly: bool, notes: lis
             notes.append(f"values come every {step // 60} hours, not every hour")
     missing = gaps = 0
     first_after: int | None = None
-    for at, diff in zip(ordered, diffs, strict=True):
+    for at, diff in zip(ordered[:-1], diffs, strict=True):
         if diff > step:
             gaps += 1
             missing += diff // step - 1

@@ -123,7 +123,7 @@ def condensation_svg(
     for n, found in marks:
         notes.append(
             f"◆{n} water would condense at the {found.label} "
-            f"({temp_from_c(found.temperature_c, units):.1f} {degree})"
+            f"({temp_from_c(found.temperature_c, units):.1f}\u00a0{degree})"
         )
     wrapped = [line for note in notes for line in textwrap.wrap(note, LEGEND_CHARS)]
     legend_lines = 2 + len(wrapped)
