@@ -363,7 +363,9 @@ class OptionFigures(HouseFigures):
     rebates: float
     net_cost: float = Field(description="installed cost - rebates")
     simple_payback_years: float | None = Field(description="null when savings <= 0")
-    payback_year: float | None = Field(description="crossing of the undiscounted cash flow")
+    cash_flow_payback_years: float | None = Field(
+        description="crossing of the undiscounted cash flow (with escalation)"
+    )
     discounted_payback_years: float | None
     present_value: float = Field(description="present value of the savings")
     npv: float

@@ -9,8 +9,8 @@ in vapour flow into and out of each plane is the condensation rate.
 
 Choices made here (and why):
 
-* Every layer is split into sub-layers of at most 0.25 m²·K/W [1] so that condensation inside
-  a thick insulation layer is found, not only at the layer's faces.
+* Every layer is split into sub-layers of at most 0.25 m²·K/W ([1], from memory) so that
+  condensation inside a thick insulation layer is found, not only at the layer's faces.
 * A layer never resists vapour less than still air of the same thickness (mu >= 1), so its sd
   is taken as max(sd, thickness). With that floor an assembly whose layers were all given
   sd = 0 still has a defined, linear-in-thickness vapour profile. If the total sd is still

@@ -103,22 +103,22 @@ def vapour_pressure_pa(temp_c: float, rh: float) -> float:
     return float(psychrolib.GetVapPresFromRelHum(value, humidity))
 
 
-def dew_point_from_vapour_pressure_c(vapour_pressure: float) -> float | None:
+def dew_point_from_vapour_pressure_c(vapour_pressure_pa: float) -> float | None:
     """Dew-point (or frost-point) temperature of a vapour pressure [°C].
 
     Parameters
     ----------
-    vapour_pressure : float
+    vapour_pressure_pa : float
         Partial pressure of water vapour [Pa], zero or more.
 
     Returns
     -------
     float or None
-        The temperature whose saturation pressure equals ``vapour_pressure`` [°C], found by
+        The temperature whose saturation pressure equals ``vapour_pressure_pa`` [°C], found by
         inverting [1] eq. 5/6 (psychrolib [2], Newton-Raphson); ``None`` when the air is so dry
         that the dew point lies below -100 °C (for example a vapour pressure of 0).
     """
-    pressure = float(vapour_pressure)
+    pressure = float(vapour_pressure_pa)
     if not math.isfinite(pressure) or pressure < 0.0:
         raise ValueError("a vapour pressure must be zero or more")
     _ensure_si()

@@ -401,7 +401,7 @@ def _option(
         rebates=money.rebates,
         net_cost=money.net_cost,
         simple_payback_years=money.simple_payback_years,
-        payback_year=money.payback_year,
+        cash_flow_payback_years=money.payback_year,
         discounted_payback_years=money.discounted_payback_year,
         present_value=money.present_value,
         npv=money.npv,

@@ -176,6 +176,8 @@ def test_format_inches_hand_cases() -> None:
         ("3 1/2\u2033", 3.5),  # unicode double prime = inch
         ("5\u2032 6\u2033", 66.0),  # unicode prime = foot
         ("12 cm", 120 / 25.4),  # 120 mm / 25.4 = 4.72441 in
+        ("10-1/2", 10.5),  # two-digit whole number
+        ("1 11/16", 1.6875),  # 1 + 11/16 (two-digit numerator after a whole number)
     ],
 )
 def test_parse_length_trade_forms(text: str, inches: float) -> None:

@@ -1,0 +1,98 @@
+"""Calculator pages that need no saved house: pipe-insulation sizing."""
+
+from __future__ import annotations
+
+from fastapi import APIRouter, Request
+from pydantic import ValidationError
+
+from server.api.errors import field_path
+from server.documents.pipe import PipeRequest
+from server.errors import InputError
+from server.services.pipe import compute_pipe
+from server.web.deps import render
+from server.web.forms import parse_float
+
+router = APIRouter()
+
+PIPE_DEFAULTS = {
+    "ip": {"units": "ip", "pipe_outer_diameter": "7/8", "thickness": "3/4", "conductivity": "0.25",
+           "fluid_temperature": "140", "ambient_temperature": "55", "surface_coefficient": "",
+           "emissivity": "0.9", "length": "40", "hours_per_year": "3000", "target_heat_loss_per_length": ""},
+    "si": {"units": "si", "pipe_outer_diameter": "22", "thickness": "19", "conductivity": "0.035",
+           "fluid_temperature": "60", "ambient_temperature": "13", "surface_coefficient": "",
+           "emissivity": "0.9", "length": "12", "hours_per_year": "3000", "target_heat_loss_per_length": ""},
+}  # fmt: skip
+_LENGTHS = ("pipe_outer_diameter", "thickness")
+_OPTIONAL = ("surface_coefficient", "hours_per_year", "target_heat_loss_per_length")
+_SIGNED = ("fluid_temperature", "ambient_temperature")
+
+
+def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest | None:
+    from server.physics.units import INCH_M, parse_length
+
+    units = form.get("units") if form.get("units") in ("ip", "si") else "ip"
+    values: dict[str, float | None] = {}
+    for key in PIPE_DEFAULTS["ip"]:
+        if key == "units":
+            continue
+        text = form.get(key, "").strip()
+        if key in _OPTIONAL and not text:
+            values[key] = None
+            continue
+        if key in _LENGTHS:
+            try:
+                metres = parse_length(text, default_unit="in" if units == "ip" else "mm")
+                values[key] = metres / INCH_M if units == "ip" else metres * 1e3
+            except ValueError as exc:
+                errors[key] = str(exc)
+            continue
+        values[key] = parse_float(text, key, errors, positive=key not in _SIGNED)
+    if errors:
+        return None
+    body = {
+        "units": units,
+        "pipe_outer_diameter": values["pipe_outer_diameter"],
+        "layers": [{"thickness": values["thickness"], "conductivity": values["conductivity"]}],
+        "fluid_temperature": values["fluid_temperature"],
+        "ambient_temperature": values["ambient_temperature"],
+        "emissivity": values["emissivity"],
+        "length": values["length"],
+    }
+    for key in _OPTIONAL:
+        if values.get(key) is not None:
+            body[key] = values[key]
+    try:
+        return PipeRequest.model_validate(body)
+    except ValidationError as exc:
+        for err in exc.errors():
+            path = field_path(err.get("loc", ()))
+            key = path.split(".")[-1] if path.startswith("layers") else path
+            errors[key] = err.get("msg", "").removeprefix("Value error, ")
+        return None
+
+
+@router.get("/tools/pipe", name="pipe_tool")
+def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-def]
+    form = dict(PIPE_DEFAULTS["si" if units == "si" else "ip"])
+    errors: dict[str, str] = {}
+    req = _pipe_request(form, errors)
+    result = compute_pipe(req) if req else None
+    return render(request, "pages/pipe.html", {"form": form, "errors": errors, "result": result, "nav": "pipe"})
+
+
+@router.post("/tools/pipe")
+async def pipe_compute(request: Request):  # type: ignore[no-untyped-def]
+    form = {k: str(v) for k, v in (await request.form()).items()}
+    errors: dict[str, str] = {}
+    req = _pipe_request(form, errors)
+    result = None
+    if req is not None:
+        try:
+            result = compute_pipe(req)
+        except InputError as exc:
+            for err in exc.errors():
+                errors[err.field.split(".")[-1]] = err.message
+    htmx = request.headers.get("HX-Request") == "true"
+    template = "partials/pipe_result.html" if htmx else "pages/pipe.html"
+    status = 200 if (htmx or not errors) else 422
+    return render(request, template, {"form": form, "errors": errors, "result": result, "nav": "pipe"}, status_code=status)
