@@ -112,7 +112,7 @@ class AirLeakageIn(Strict):
     n_factor: Annotated[float, Field(ge=1, le=100, allow_inf_nan=False)] = Field(
         default=18.0, description="LBL N-factor; 18 when omitted (common practice)"
     )
-    volume: Annotated[float, Field(gt=0, le=1e9, allow_inf_nan=False)]
+    volume: Annotated[float, Field(ge=1, le=1e9, allow_inf_nan=False)]
 
     @model_validator(mode="after")
     def _one_figure(self) -> AirLeakageIn:

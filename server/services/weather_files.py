@@ -119,6 +119,8 @@ def _decode(data: bytes) -> str:
         except UnicodeDecodeError:
             text = data.decode("latin-1")
     head = text[:8192]
+    if not text.strip():
+        raise _fail("the file is empty")
     if len(_CONTROL.findall(head)) > len(head) // 100:
         raise _fail("the file is binary, not a text weather file")
     if "\n" not in text:
