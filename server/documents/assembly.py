@@ -91,6 +91,11 @@ class LayerInput(Strict):
     material: Slug | None = None
     cavity: CavityInput | None = None
     framing: FramingInput | None = None
+    vapour_sd_m: NonNegative | None = Field(
+        default=None,
+        description="vapour-diffusion-equivalent air layer thickness sd [m] (always metres); "
+        "omitted = from the library material, or still air of the layer's thickness",
+    )
 
     @model_validator(mode="after")
     def _one_way(self) -> LayerInput:

@@ -216,7 +216,7 @@ class UpgradeIn(Strict):
             "pipe_insulation": assembly_given + sealing_given,
         }[self.kind]
         if others:
-            raise ValueError(f"a {self.kind} upgrade does not take {', '.join(others)}")
+            raise ValueError(f"an upgrade of kind {self.kind} does not take {', '.join(others)}")
         if self.kind == "assembly":
             if self.surface is None or len(assembly_given) != 1:
                 raise ValueError(

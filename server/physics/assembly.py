@@ -160,7 +160,13 @@ def assembly_resistance(
             area *= f if pick else 1.0 - f
             r_path += layer.framing_r_si if pick else layer.cavity_r_si
         if area > 0:
+            if not r_path > 0:
+                raise ValueError("the assembly has no thermal resistance: total R is zero")
             conductance += area / r_path
+    if not (conductance > 0 and math.isfinite(conductance)) or not math.isfinite(base):
+        raise ValueError(
+            "the assembly has no usable thermal resistance (total R is zero or too large to compute)"
+        )
     r_upper = 1.0 / conductance
 
     # Lower bound / isothermal planes.

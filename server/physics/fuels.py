@@ -28,8 +28,6 @@ from dataclasses import dataclass
 
 from server.physics.units import BTU_J, KWH_BTU
 
-#: One million Btu [J].
-MMBTU_J = 1.0e6 * BTU_J
 #: One kWh [J] (= 3412.14 Btu, NIST SP 811 [3]).
 KWH_J = KWH_BTU * BTU_J
 

@@ -173,7 +173,19 @@ def upgrade_target(upgrade: Upgrade) -> str:
 
 
 def apply_upgrades(house: House, upgrades: Sequence[Upgrade]) -> House:
-    """A copy of ``house`` with every upgrade applied.
+    """A copy of ``house`` with every upgrade applied (the original is left as it was).
+
+    Parameters
+    ----------
+    house : House
+        The as-found house.
+    upgrades : sequence of Upgrade
+        New U [W/(m²·K)], leakage [m³/s] or pipe resistance [m·K/W], one per target.
+
+    Returns
+    -------
+    House
+        The modified house.
 
     Raises
     ------
@@ -262,7 +274,19 @@ def evaluate(house: House) -> HouseEnergy:
     """Annual energy, cost and CO2 of ``house`` by the degree-day method [1].
 
     ``UA = Σ U·A + UA_inf``; heating ``Q = UA·HDD·24 h`` plus pipe losses, bought at the
-    heating system's efficiency; cooling ``Q = UA·CDD·24 h`` (sensible only) at SEER or COP.
+    heating system's efficiency; cooling ``Q = UA·CDD·24 h`` (sensible only) at SEER or COP;
+    cost = fuel × price + kWh × electricity price; CO2 = fuel × factor + kWh × grid factor.
+
+    Parameters
+    ----------
+    house : House
+        Surfaces [m², W/(m²·K)], leakage [m³/s, -, m³], degree-days [K·day], systems.
+
+    Returns
+    -------
+    HouseEnergy
+        UA [W/K], loads [J], fuel [fuel units], cooling [kWh], costs [money/year], CO2
+        [kg/year].
     """
     by_surface = {s.id: s.u_si * s.area_m2 for s in house.surfaces}
     envelope = sum(by_surface.values())

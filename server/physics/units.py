@@ -166,14 +166,17 @@ _UNIT_M = {
     "feet": FOOT_M,
 }
 _NUMBER = r"(?:\d+(?:\.\d*)?|\.\d+)"
+_UNIT = r"(?P<unit>mm|cm|m|inches|inch|in|\"|feet|foot|ft|')?"
 _AMOUNT = re.compile(
-    rf"""^\s*
-    (?P<whole>{_NUMBER})?                # 3  or 3.5
-    (?:\s*(?:-|\s)\s*)?                  # 3-1/2 or 3 1/2
-    (?:(?P<num>\d+)\s*/\s*(?P<den>\d+))? # 1/2
-    \s*(?P<unit>mm|cm|m|inches|inch|in|"|feet|foot|ft|')?\s*$""",
+    rf"""^\s*(?:
+      (?P<whole>{_NUMBER})(?:\s*-\s*|\s+)(?P<num>\d+)\s*/\s*(?P<den>\d+)   # 3-1/2, 5 1/2
+    | (?P<fnum>\d+)\s*/\s*(?P<fden>\d+)                                 # 1/2, 11/16
+    | (?P<plain>{_NUMBER})                                              # 3, 3.5
+    )\s*{_UNIT}\s*$""",
     re.VERBOSE | re.IGNORECASE,
 )
+#: longer text than this is not a length anyone types
+_MAX_TEXT = 40
 _FEET_INCHES = re.compile(rf"^\s*(?P<ft>{_NUMBER})\s*(?:'|ft)\s*(?P<rest>.+?)\s*$", re.IGNORECASE)
 
 
@@ -208,15 +211,20 @@ def parse_length(text: str, default_unit: str = "in") -> float:
     if feet and feet.group("rest"):
         inches = parse_length(feet.group("rest"), default_unit="in")
         return float(feet.group("ft")) * FOOT_M + inches
+    if len(raw) > _MAX_TEXT:
+        raise ValueError('that is too long to be a length; write it like 3-1/2, 5 1/2" or 89 mm')
     match = _AMOUNT.match(raw)
-    if not match or not (match.group("whole") or match.group("num")):
+    if not match:
         raise ValueError(f"'{raw}' is not a length; write it like 3-1/2, 5 1/2\" or 89 mm")
-    amount = Fraction(match.group("whole") or 0)
-    if match.group("num"):
-        den = int(match.group("den"))
+    if match.group("plain"):
+        amount = Fraction(match.group("plain"))
+    else:
+        whole = Fraction(match.group("whole") or 0)
+        num = int(match.group("num") or match.group("fnum"))
+        den = int(match.group("den") or match.group("fden"))
         if den == 0:
             raise ValueError(f"'{raw}' divides by zero")
-        amount += Fraction(int(match.group("num")), den)
+        amount = whole + Fraction(num, den)
     unit = (match.group("unit") or default_unit).lower()
     if unit not in _UNIT_M:
         raise ValueError(f"unknown unit '{unit}'")

@@ -39,7 +39,7 @@ from server.documents.pipe import PipeLayerIn, PipeRequest
 from server.errors import FieldError, InputError
 from server.physics import economics
 from server.physics import house_model as model
-from server.physics.energy import CFM_M3_PER_S, flow_from_ach50
+from server.physics.energy import CFM_M3_PER_S, air_changes_at_50_pa, flow_from_ach50
 from server.physics.fuels import (
     GRID_ELECTRICITY_CO2_KG_PER_KWH,
     GRID_ELECTRICITY_CO2_SOURCE,
@@ -108,8 +108,10 @@ class _Build:
                 )
             except ValueError as exc:
                 raise InputError(f"{path}.layers", str(exc)) from None
-            if not result.rsi_total > 0:
-                raise InputError(f"{path}.layers", "the assembly has no thermal resistance")
+            if not (result.rsi_total > 0 and math.isfinite(result.rsi_total)):
+                raise InputError(
+                    f"{path}.layers", "the assembly's total R must be above zero and finite"
+                )
             self.assemblies[key] = result
         return self.assemblies[key]
 
@@ -269,7 +271,8 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
 
 
 def _leakage_words(flow_m3_per_s: float, volume_m3: float) -> str:
-    return f"{flow_m3_per_s / CFM_M3_PER_S:.0f} CFM50, n50 {flow_m3_per_s * 3600 / volume_m3:.2f}/h"
+    ach50 = air_changes_at_50_pa(flow_m3_per_s, volume_m3)
+    return f"{flow_m3_per_s / CFM_M3_PER_S:.0f} CFM50, n50 {ach50:.2f}/h"
 
 
 def _upgrade(
@@ -351,7 +354,7 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
         for p in house.pipe_runs
     ]
     leak = house.air_leakage
-    ach50 = None if leak is None else leak.flow50_m3_per_s * 3600.0 / leak.volume_m3
+    ach50 = None if leak is None else air_changes_at_50_pa(leak.flow50_m3_per_s, leak.volume_m3)
     return {
         "ua": ua(total_ua),
         "ua_envelope": ua(energy.envelope_ua_w_per_k),

@@ -157,7 +157,7 @@ def add_surface(
     found = typical_assemblies().get(typical) if typical else None
     if typical and found is None:
         raise InputError("typical", "there is no such typical assembly")
-    kind = kind or (found.kind if found else "")
+    kind = kind or (found.kind if found else "wall")
     if kind not in SURFACE_KINDS:
         raise InputError("kind", "choose what kind of surface this is")
     if not (area > 0 and area < 1e7):

@@ -27,10 +27,11 @@ import csv
 import math
 import re
 import statistics
-from collections import Counter
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import date, datetime
+from itertools import repeat
+from operator import add, floordiv, mod
 
 from server.errors import InputError
 from server.physics.units import f_to_c
@@ -188,7 +189,10 @@ def _assemble(
         ]
         day_keys, clock_keys = [day_keys[i] for i in keep], [clock_keys[i] for i in keep]
         values = [values[i] for i in keep]
-    stamps = [days[d] * 1440 + clocks[c] for d, c in zip(day_keys, clock_keys, strict=True)]  # type: ignore[operator]
+    day_starts = {key: day * 1440 for key, day in days.items() if day is not None}
+    stamps = list(
+        map(add, map(day_starts.__getitem__, day_keys), map(clocks.__getitem__, clock_keys))
+    )
     if not stamps:
         raise _fail(f"the {kind.upper()} file has no data rows that can be read")
     lines = body.rstrip().count("\n") + 1
@@ -566,7 +570,7 @@ def _finish(raw: _Raw) -> WeatherSeries:
     stamps, values = _keep_plausible(raw, notes)
     stamps, values = _dedupe(raw, stamps, values, notes)
     per_day = 1440 if raw.hourly else 1
-    ordinals = [s // per_day for s in stamps] if raw.hourly else stamps
+    ordinals = _days_of(stamps) if raw.hourly else stamps
     days = {o: date.fromordinal(o) for o in dict.fromkeys(ordinals)}
     years = sorted({d.year for d in days.values()})
     composite, previous = False, ordinals[0]
@@ -590,16 +594,15 @@ def _finish(raw: _Raw) -> WeatherSeries:
         if stamps != sorted(stamps):
             pairs = sorted(zip(stamps, values, strict=True))
             stamps, values = [p[0] for p in pairs], [p[1] for p in pairs]
-            ordinals = [s // per_day for s in stamps] if raw.hourly else stamps
+            ordinals = _days_of(stamps) if raw.hourly else stamps
         span = ordinals[-1] - ordinals[0] + 1
         if span > 366:
             notes.append(
                 f"the file covers {span:,} days, more than a year: totals are for the whole "
                 "period, not per year"
             )
-    per_day_counts = Counter(ordinals)
     starts = sorted(calendar.values())
-    whole_days = not raw.hourly or all(n == 24 for n in per_day_counts.values())
+    whole_days = not raw.hourly or len(stamps) == 24 * len(days)  # stamps are distinct hours
     if not (whole_days and starts[-1] - starts[0] == (len(starts) - 1) * per_day):
         positions = [calendar[o] + s % per_day for o, s in zip(ordinals, stamps, strict=True)]
         _note_gaps(positions, stamps, raw.hourly, notes)
@@ -611,11 +614,18 @@ def _finish(raw: _Raw) -> WeatherSeries:
     return WeatherSeries(
         kind=raw.kind,
         dates=tuple(map(days.__getitem__, ordinals)),
-        hours=tuple([s % 1440 // 60 for s in stamps]) if raw.hourly else None,
+        hours=tuple(map(floordiv, map(mod, stamps, repeat(1440)), repeat(60)))
+        if raw.hourly
+        else None,
         temperatures_c=tuple(values),
         warnings=tuple(notes),
         station=raw.station,
     )
+
+
+def _days_of(stamps: list[int]) -> list[int]:
+    """Day ordinals of minute stamps (C-level map: this runs on every hour of the file)."""
+    return list(map(floordiv, stamps, repeat(1440)))
 
 
 def _label(stamp: int, hourly: bool) -> str:

@@ -49,6 +49,13 @@ def money(value: float | None) -> str:
     return f"{sign}${abs(value):,.0f}"
 
 
-FILTERS = {"r_value": r_value, "r_other": r_other, "u_value": u_value, "number": number,
+def temp_c(value_c: float | None, units: str = "ip") -> str:
+    """A temperature held in °C, shown in the house's units."""
+    if value_c is None:
+        return "—"
+    return f"{value_c * 9 / 5 + 32:.0f} °F" if units == "ip" else f"{value_c:.1f} °C"
+
+
+FILTERS = {"temp_c": temp_c, "r_value": r_value, "r_other": r_other, "u_value": u_value, "number": number,
            "percent": percent, "money": money}  # fmt: skip
 GLOBALS = {"UNIT_LABELS": UNIT_LABELS}

@@ -435,3 +435,16 @@ def _numbers(value):
             yield from _numbers(item)
     else:
         yield value
+
+
+def test_absurd_layer_r_is_a_422_not_a_500():
+    # Two layers of R 1e308 each: finite in, an R beyond floating point out -> 422.
+    layers = [{"name": "a", "r": 1e308}, {"name": "b", "r": 1e308}]
+    doc = mutated(
+        lambda d: set_path(
+            d, ["surfaces", 0, "assembly"], {"heat_flow": "up", "films": "none", "layers": layers}
+        )
+    )
+    response = client.post(URL, json=doc)
+    assert response.status_code == 422
+    assert response.json()["errors"][0]["message"]

@@ -343,22 +343,13 @@ def test_too_many_framed_layers_refused() -> None:
     assert assembly_resistance(framed[:MAX_FRAMED_LAYERS], NO_FILMS).r_parallel_path_si > 0
 
 
-@pytest.mark.xfail(
-    reason="BUG: an assembly whose total R is zero (films 'none', one layer of R 0) raises "
-    "ZeroDivisionError in assembly_resistance (1.0 / conductance) instead of ValueError; the "
-    "API returns 500 for it",
-    strict=True,
-)
 def test_zero_total_r_is_a_value_error() -> None:
+    # limiting case: total R = 0 means U = infinity: refused (once a ZeroDivisionError)
     with pytest.raises(ValueError):
         assembly_resistance([Layer("vent channel", 0.0)], NO_FILMS)
 
 
-@pytest.mark.xfail(
-    reason="BUG: layers whose R sum overflows to infinity (two layers of 1e308 m²·K/W) raise "
-    "ZeroDivisionError in assembly_resistance instead of ValueError; the API returns 500",
-    strict=True,
-)
 def test_overflowing_total_r_is_a_value_error() -> None:
+    # 1e308 + 1e308 overflows to infinity: refused (once a ZeroDivisionError)
     with pytest.raises(ValueError):
         assembly_resistance([Layer("a", 1e308), Layer("b", 1e308)], NO_FILMS)

@@ -18,7 +18,11 @@ def _house(client: TestClient, label: str = "Test house", units: str = "ip") -> 
 
 
 def _surface(client: TestClient, house_url: str, typical: str, area: str = "100") -> str:
-    r = client.post(f"{house_url}/surfaces", data={"typical": typical, "kind": "", "area": area}, follow_redirects=False)
+    r = client.post(
+        f"{house_url}/surfaces",
+        data={"typical": typical, "kind": "", "area": area},
+        follow_redirects=False,
+    )
     assert r.status_code == 303, r.text
     return r.headers["location"]
 
@@ -32,7 +36,9 @@ def _version(html: str) -> str:
 def _editor_fields(html: str) -> dict[str, str]:
     """The editor form's current field values, as a browser would post them."""
     fields = dict(re.findall(r'name="(layers-\d+-[a-z_]+)" value="([^"]*)"', html))
-    for name, body in re.findall(r'<select id="[^"]+" name="([^"]+)"[^>]*>(.*?)</select>', html, re.S):
+    for name, body in re.findall(
+        r'<select id="[^"]+" name="([^"]+)"[^>]*>(.*?)</select>', html, re.S
+    ):
         chosen = re.search(r'<option value="([^"]*)" selected', body)
         fields[name] = chosen.group(1) if chosen else ""
     fields["layer_count"] = re.search(r'name="layer_count" value="(\d+)"', html).group(1)  # type: ignore[union-attr]
@@ -71,7 +77,9 @@ def test_add_typical_surface_shows_r_and_share(client: TestClient) -> None:
 
 def test_bad_area_is_refused_with_message(client: TestClient) -> None:
     house = _house(client)
-    r = client.post(f"{house}/surfaces", data={"typical": "wall-2x4-16-r13", "kind": "", "area": "-5"})
+    r = client.post(
+        f"{house}/surfaces", data={"typical": "wall-2x4-16-r13", "kind": "", "area": "-5"}
+    )
     assert r.status_code == 422
     assert "must be greater than zero" in r.text
 
@@ -148,7 +156,9 @@ def test_units_toggle_converts_the_house(client: TestClient) -> None:
     house = _house(client)
     surface = _surface(client, house, "wall-2x4-16-r13", "100")
     version = _version(client.get(house).text)
-    r = client.post(f"{house}/units", data={"units": "si", "version": version}, follow_redirects=True)
+    r = client.post(
+        f"{house}/units", data={"units": "si", "version": version}, follow_redirects=True
+    )
     # R-11.85 → RSI 11.85 / 5.678263 = 2.09 (API.md unit facts); 100 ft² → 9.29 m²
     assert "RSI 2.08" in r.text or "RSI 2.09" in r.text
     assert "9" in r.text
@@ -169,7 +179,9 @@ def test_library_lists_sources_and_adds_firm_material(client: TestClient) -> Non
                                       "value": "0.045", "units": "si", "source": "data sheet 2025"})  # fmt: skip
     assert r.status_code == 200  # redirected back
     assert "Wood-fibre board" in r.text and "data sheet 2025" in r.text
-    r = client.post("/library", data={"name": "No source", "value": "0.04", "units": "si", "source": ""})
+    r = client.post(
+        "/library", data={"name": "No source", "value": "0.04", "units": "si", "source": ""}
+    )
     assert r.status_code == 422 and "say where the value comes from" in r.text
 
 
@@ -182,3 +194,22 @@ def test_demo_house_loads_once(app, client: TestClient) -> None:  # type: ignore
     assert first == second
     page = client.get(f"/houses/{first}").text
     assert DEMO_LABEL in page and "Attic floor (main)" in page
+
+
+def test_surface_page_shows_dew_point_check_and_cautions(client: TestClient) -> None:
+    house = _house(client)
+    surface = _surface(client, house, "wall-2x4-16-r13", "100")
+    page = client.get(surface).text
+    # 2x4 R-13 wall, vinyl/OSB (sd 1.67 m) outside, drywall (sd 0.13 m) inside, 21 °C/40 % vs
+    # −10 °C/80 %: the inside face of the OSB is below the room air's dew point (6.9 °C by
+    # psychrolib) and the warm side resists vapour far less than the cold side → flagged.
+    assert "Dew-point check" in page and "<svg" in page
+    assert "would condense" in page
+    assert "Knob-and-tube" in page
+
+
+def test_attic_surface_shows_attic_cautions(client: TestClient) -> None:
+    house = _house(client)
+    surface = _surface(client, house, "attic-2x6-16-empty", "100")
+    page = client.get(surface).text
+    assert "vermiculite" in page and "Recessed lights" in page and "chimneys and flues" in page

@@ -53,8 +53,9 @@ async def calc_degree_days(
 ) -> DegreeDaysResult:
     """Read the file and compute; the form fields win over the same-named query options."""
     # A client that sends the file's text as a plain form field gets it read the same way.
-    data = file.encode() if isinstance(file, str) else await file.read(MAX_UPLOAD_BYTES + 1)
-    if len(data) > MAX_UPLOAD_BYTES:
+    too_big = not isinstance(file, str) and (file.size or 0) > MAX_UPLOAD_BYTES
+    data = b"" if too_big else await _read(file)
+    if too_big or len(data) > MAX_UPLOAD_BYTES:
         raise InputError(
             field="file",
             message=f"the file is larger than {MAX_UPLOAD_BYTES // (1024 * 1024)} MB; upload "
@@ -69,3 +70,10 @@ async def calc_degree_days(
         temperature_column=temperature_column or temperature_column_query,
         temperature_unit=temperature_unit or temperature_unit_query,
     )
+
+
+async def _read(file: UploadFile | str) -> bytes:
+    """The upload's bytes, at most one byte past the limit (so the limit can be told)."""
+    if isinstance(file, str):
+        return file.encode()
+    return await file.read(MAX_UPLOAD_BYTES + 1)

@@ -83,7 +83,7 @@ def add_surface(  # type: ignore[no-untyped-def]
     org: OrgDep,
     house_id: int,
     name: str = Form(""),
-    kind: str = Form("wall"),
+    kind: str = Form(""),
     area: str = Form(""),
     typical: str = Form(""),
     version: int | None = Form(None),
@@ -91,8 +91,6 @@ def add_surface(  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
     area_value = parse_float(area, "area", errors)
-    if typical and typical in typical_assemblies() and not kind:
-        kind = typical_assemblies()[typical].kind
     if not errors:
         try:
             surface = svc.add_surface(

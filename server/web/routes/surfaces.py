@@ -9,7 +9,9 @@ from server.documents.assembly import AssemblyInput
 from server.errors import InputError
 from server.services import houses as svc
 from server.services.assembly import evaluate_assembly
+from server.services.cautions import cautions_for
 from server.services.library import catalog_for, list_materials
+from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.forms import parse_float
@@ -23,13 +25,31 @@ from server.web.layer_form import (
     form_from_document,
     form_from_post,
 )
+from server.web.svg_condensation import condensation_svg
 
 router = APIRouter()
 MAX_LAYERS = 40
 
 
+def _moisture(house, surface, result, catalog):  # type: ignore[no-untyped-def]
+    """The dew-point check of the saved assembly, or None when it cannot be computed."""
+    if result is None:
+        return None
+    try:
+        doc = AssemblyInput.model_validate(surface.assembly)
+        design = (house.climate or {}).get("heating_design_temperature")
+        check = check_assembly_moisture(doc, result, units=house.units, catalog=catalog,
+                                        outdoor_design_temperature=design)  # fmt: skip
+    except (ValueError, InputError):
+        return None
+    return {"check": check, "svg": condensation_svg(check.result, units=house.units)}
+
+
 def _context(session, org, house, surface, form: AssemblyForm, result, message: str = "") -> dict:  # type: ignore[no-untyped-def]
+    catalog = catalog_for(session=session, organization_id=org.id)
     return {
+        "moisture": None if form.has_errors else _moisture(house, surface, result, catalog),
+        "cautions": cautions_for([surface.kind]),
         "house": house,
         "surface": surface,
         "form": form,

@@ -77,7 +77,11 @@ def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-d
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
     result = compute_pipe(req) if req else None
-    return render(request, "pages/pipe.html", {"form": form, "errors": errors, "result": result, "nav": "pipe"})
+    return render(
+        request,
+        "pages/pipe.html",
+        {"form": form, "errors": errors, "result": result, "nav": "pipe"},
+    )
 
 
 @router.post("/tools/pipe")
@@ -95,4 +99,9 @@ async def pipe_compute(request: Request):  # type: ignore[no-untyped-def]
     htmx = request.headers.get("HX-Request") == "true"
     template = "partials/pipe_result.html" if htmx else "pages/pipe.html"
     status = 200 if (htmx or not errors) else 422
-    return render(request, template, {"form": form, "errors": errors, "result": result, "nav": "pipe"}, status_code=status)
+    return render(
+        request,
+        template,
+        {"form": form, "errors": errors, "result": result, "nav": "pipe"},
+        status_code=status,
+    )
