@@ -14,6 +14,7 @@ result always carries a warning.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 #: exponent of the compression fit (common practice, from memory; see module docstring)
@@ -51,7 +52,8 @@ def batt_in_cavity(
     BattFit
         ``r_si`` = R_nominal × (t/t_nominal)^0.6 when compressed, R_nominal otherwise.
     """
-    if r_nominal_si <= 0 or thickness_nominal_m <= 0 or cavity_depth_m <= 0:
+    values = (r_nominal_si, thickness_nominal_m, cavity_depth_m)
+    if not all(math.isfinite(v) and v > 0 for v in values):
         raise ValueError("batt R, batt thickness and cavity depth must be greater than zero")
     ratio = cavity_depth_m / thickness_nominal_m
     if ratio >= 1.0:

@@ -59,6 +59,8 @@ def lumber_size(label: str) -> Lumber:
         width, depth = int(width_s), int(depth_s)
     except ValueError:
         raise ValueError(f"'{label}' is not a lumber size like 2x4 or 2x6") from None
+    if width <= 0 or depth <= 0:
+        raise ValueError(f"'{label}' has a zero size; write it like 2x4 or 2x6")
     if rough:
         return Lumber(label, width * INCH_M, depth * INCH_M, True)
     if width not in _DRESSED_WIDTH_IN or depth not in _DRESSED_DEPTH_IN:

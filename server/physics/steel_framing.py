@@ -10,6 +10,8 @@ is interpolated linearly in R_cavity.
 
 from __future__ import annotations
 
+import math
+
 from server.physics.units import r_ip_to_si, r_si_to_ip
 
 #: (nominal depth [in], spacing [in]) -> [(cavity R (IP), effective R of the layer (IP))]
@@ -33,14 +35,17 @@ def steel_stud_effective_r(cavity_r_si: float, depth_m: float, spacing_in: float
     spacing_in : float
         Stud spacing on centre [in]; 16 or 24 (nearer one used).
     """
-    if cavity_r_si <= 0:
-        raise ValueError("cavity R must be greater than zero")
+    if not (math.isfinite(cavity_r_si) and cavity_r_si > 0):
+        raise ValueError("cavity R must be a finite number greater than zero")
+    if not (math.isfinite(depth_m) and depth_m > 0):
+        raise ValueError("stud depth must be a finite number greater than zero")
     depth_in = depth_m / 0.0254
     depth_key = 3.5 if abs(depth_in - 3.5) <= abs(depth_in - 6.0) else 6.0
     spacing_key = 16 if abs(spacing_in - 16) <= abs(spacing_in - 24) else 24
     rows = _EFFECTIVE_R_IP[(depth_key, spacing_key)]
     cavity_ip = r_si_to_ip(cavity_r_si)
     factors = [(r, eff / r) for r, eff in rows]
+    factor = factors[-1][1]
     if cavity_ip <= factors[0][0]:
         factor = factors[0][1]
     elif cavity_ip >= factors[-1][0]:

@@ -175,6 +175,7 @@ _AMOUNT = re.compile(
     )\s*{_UNIT}\s*$""",
     re.VERBOSE | re.IGNORECASE,
 )
+_ZERO = re.compile(r"^\s*0+(?:\.0*)?\s*(?:\"|in|inch|inches)?\s*$", re.IGNORECASE)
 #: longer text than this is not a length anyone types
 _MAX_TEXT = 40
 _FEET_INCHES = re.compile(rf"^\s*(?P<ft>{_NUMBER})\s*(?:'|ft)\s*(?P<rest>.+?)\s*$", re.IGNORECASE)
@@ -207,10 +208,16 @@ def parse_length(text: str, default_unit: str = "in") -> float:
     if text is None or not str(text).strip():
         raise ValueError('enter a length, for example 3-1/2, 5 1/2" or 89 mm')
     raw = str(text).strip().replace("\u2033", '"').replace("\u2032", "'")
+    if len(raw) > _MAX_TEXT:
+        raise ValueError('that is too long to be a length; write it like 3-1/2, 5 1/2" or 89 mm')
     feet = _FEET_INCHES.match(raw)
     if feet and feet.group("rest"):
-        inches = parse_length(feet.group("rest"), default_unit="in")
-        return float(feet.group("ft")) * FOOT_M + inches
+        rest = feet.group("rest")
+        inches = 0.0 if _ZERO.match(rest) else parse_length(rest, default_unit="in")
+        metres = float(feet.group("ft")) * FOOT_M + inches
+        if not math.isfinite(metres) or metres <= 0:
+            raise ValueError(f"'{raw}' must be a length greater than zero")
+        return metres
     if len(raw) > _MAX_TEXT:
         raise ValueError('that is too long to be a length; write it like 3-1/2, 5 1/2" or 89 mm')
     match = _AMOUNT.match(raw)

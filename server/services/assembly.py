@@ -180,7 +180,12 @@ def evaluate_assembly(
     catalog = builtin_catalog() if catalog is None else catalog
     prefix = field
     builder = _Builder(units, catalog, prefix)
-    layers = [builder.layer(i, doc) for i, doc in enumerate(assembly.layers)]
+    layers = []
+    for i, doc in enumerate(assembly.layers):
+        try:
+            layers.append(builder.layer(i, doc))
+        except ValueError as exc:
+            raise InputError(f"{prefix}.layers[{i}]".lstrip("."), str(exc)) from None
     films = surface_films(assembly.films, assembly.heat_flow)
     try:
         result = phys.assembly_resistance(layers, films)
@@ -266,7 +271,12 @@ def thickness_needed(
     if request.existing_r >= request.target_r:
         raise InputError("target_r", "the assembly already meets this R; nothing to add")
     r_needed_si = _r_si(request.target_r - request.existing_r, units)
-    thickness_m = phys.thickness_for_r(r_needed_si, k_si)
+    try:
+        thickness_m = phys.thickness_for_r(r_needed_si, k_si)
+    except ValueError as exc:
+        raise InputError("target_r", str(exc)) from None
+    if not (thickness_m < 1e3):  # also catches inf: no layer is a kilometre thick
+        raise InputError("target_r", "the thickness needed is beyond any real layer; check R and k")
     thickness = from_si(thickness_m * 1e3, "thickness", units)
     label = format_inches(thickness_m, 8) if units == "ip" else f"{thickness_m * 1e3:.0f} mm"
     unit_r = "h·ft²·°F/Btu" if units == "ip" else "m²·K/W"

@@ -150,16 +150,19 @@ def _day_number(year: str | int, month: str | int, day: str | int) -> int | None
         return None
 
 
-def _fields_pattern(groups: Sequence[Sequence[int]]) -> re.Pattern[str]:
+def _fields_pattern(groups: tuple[tuple[int, ...], ...], fast: bool) -> re.Pattern[str]:
     """A regex capturing, per line, each group of adjacent 0-based comma-separated fields.
 
-    ``[[0, 1, 2], [6]]`` captures ``"2001,1,31"`` and field 6: one string per group, so the
-    captured keys hash fast and repeat (one distinct date string per day).
+    ``((0, 1, 2), (6,))`` captures ``"2001,1,31"`` and field 6: one string per group, so the
+    captured keys hash fast and repeat (one distinct date string per day). ``fast`` skips
+    fields with ``[^,]*+,`` written out one by one (the quickest form for the regex engine),
+    which could run past the end of a short line: :func:`_rows` then checks the row count
+    and falls back to the exact pattern.
     """
+    skip = "[^,]*+," if fast else "[^,\\n]*+,"
     parts, at = ["^"], 0
     for group in groups:
-        if group[0] > at:
-            parts.append(f"(?:[^,\\n]*+,){{{group[0] - at}}}")
+        parts.append(skip * (group[0] - at))
         parts.append("(" + ",".join(["[^,\\n]*+"] * len(group)) + ")")
         at = group[-1] + 1
         parts.append(",")
@@ -167,9 +170,19 @@ def _fields_pattern(groups: Sequence[Sequence[int]]) -> re.Pattern[str]:
     return re.compile("".join(parts), re.MULTILINE)
 
 
+def _rows(body: str, groups: tuple[tuple[int, ...], ...]) -> tuple[list[tuple[str, ...]], int]:
+    """Captured groups of every data line, and the number of non-blank lines."""
+    lines = body.count("\n") + (not body.endswith("\n"))
+    rows = _fields_pattern(groups, fast=True).findall(body)
+    if len(rows) != lines:  # a blank, short or odd line: read again exactly, count exactly
+        rows = _fields_pattern(groups, fast=False).findall(body)
+        lines = sum(1 for line in body.splitlines() if line.strip())
+    return rows, lines
+
+
 def _assemble(
     kind: str,
-    body: str,
+    lines: int,
     day_keys: Sequence[object],
     clock_keys: Sequence[object],
     temperatures: Sequence[str],
@@ -195,9 +208,6 @@ def _assemble(
     )
     if not stamps:
         raise _fail(f"the {kind.upper()} file has no data rows that can be read")
-    lines = body.rstrip().count("\n") + 1
-    if lines != len(stamps):  # something was not read: count the non-blank lines exactly
-        lines = sum(1 for line in body.splitlines() if line.strip())
     sub_hourly = any(minute % 60 for minute in clocks.values() if minute is not None)
     return _Raw(
         kind,
@@ -223,13 +233,13 @@ def _read_epw(text: str) -> _Raw:
     parts = text.split("\n", 8)
     if len(parts) < 9 or not parts[8].strip():
         raise _fail("the EPW file has no data rows after its 8 header lines")
-    rows = _fields_pattern([[0, 1, 2], [3, 4], [6]]).findall(parts[8])
+    rows, lines = _rows(parts[8], ((0, 1, 2), (3, 4), (6,)))
     if not rows:
         raise _fail("the EPW file has no data rows that can be read")
     days, clocks, temperatures = zip(*rows, strict=True)
     raw = _assemble(
         "epw",
-        parts[8],
+        lines,
         days,
         clocks,
         temperatures,
@@ -257,13 +267,13 @@ def _read_tmy3(text: str) -> _Raw:
         raise _fail("the TMY3 file has no 'Dry-bulb (C)', date or time column") from None
     if wanted != sorted(wanted):
         raise _fail("the TMY3 file's date, time and dry-bulb columns are out of order")
-    rows = _fields_pattern([[i] for i in wanted]).findall(body)
+    rows, lines = _rows(body, tuple((i,) for i in wanted))
     if not rows:
         raise _fail("the TMY3 file has no data rows that can be read")
     dates, times, temperatures = zip(*rows, strict=True)
     raw = _assemble(
         "tmy3",
-        body,
+        lines,
         dates,
         times,
         temperatures,
@@ -393,7 +403,7 @@ def _date_reader(keys: set[str]) -> Callable[[object], int | None]:
     def read(key: object) -> int | None:
         if key not in parts:
             return None
-        a, b, c = parts[key]  # type: ignore[index]
+        a, b, c = parts[key]
         year, month, day = (a, b, c) if ymd else (c, b, a) if dmy else (c, a, b)
         year += 2000 if year < 70 else 1900 if year < 100 else 0
         return _day_number(year, month, day)
@@ -484,14 +494,16 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
     )
     if unit == "F":
         values = list(map(f_to_c, values))
-    days = {key: day_of(key) for key in set(day_keys)}
-    clocks = {key: _clock_minutes(key) for key in set(clock_keys)}
+    found_days = {key: day_of(key) for key in set(day_keys)}
+    days = {key: day for key, day in found_days.items() if day is not None}
+    found_clocks = {key: _clock_minutes(key) for key in set(clock_keys)}
+    clocks = {key: minute for key, minute in found_clocks.items() if minute is not None}
     if any("Z" in str(k) or "+" in str(k) or "GMT" in str(k) or "UTC" in str(k) for k in clocks):
         notes.append("time-zone offsets in the timestamps were ignored; clock times were used")
     keep = [
         i
         for i, (d, c) in enumerate(zip(day_keys, clock_keys, strict=True))
-        if days[d] is not None and clocks[c] is not None
+        if d in days and c in clocks
     ]
     skipped += len(rows) - len(keep)
     if not keep:
@@ -507,10 +519,11 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
     values = [values[i] for i in keep]
     if all(math.isnan(v) for v in values):
         raise _fail(f"the temperature column '{names[temp_cols[0]]}' holds no numbers")
-    if max(minutes) < 0 or len(set(ordinals)) == len(ordinals):  # type: ignore[type-var]
-        return _Raw("csv-daily", ordinals, values, False, notes, skipped=skipped)  # type: ignore[arg-type]
-    stamps = [d * 1440 + max(m, 0) for d, m in zip(ordinals, minutes, strict=True)]  # type: ignore[operator]
-    on_hour = all(m % 60 == 0 for m in minutes)  # type: ignore[operator]
+    stamps = [d * 1440 + max(m, 0) for d, m in zip(ordinals, minutes, strict=True)]
+    if max(minutes) < 0 or len(set(stamps)) == len(set(ordinals)):
+        # no clock times, or one time a day: daily values
+        return _Raw("csv-daily", ordinals, values, False, notes, skipped=skipped)
+    on_hour = all(m % 60 == 0 for m in minutes)
     if on_hour and (1440 in minutes or (minutes[0] == 60 and minutes[-1] == 0)):
         stamps = [s - 60 for s in stamps]  # hour-ending: each value is for the hour before
         notes.append(
@@ -573,12 +586,7 @@ def _finish(raw: _Raw) -> WeatherSeries:
     ordinals = _days_of(stamps) if raw.hourly else stamps
     days = {o: date.fromordinal(o) for o in dict.fromkeys(ordinals)}
     years = sorted({d.year for d in days.values()})
-    composite, previous = False, ordinals[0]
-    for ordinal in days:  # distinct days in file order
-        if days[ordinal].year != days[previous].year and abs(ordinal - previous) > 31:
-            composite = True
-            break
-        previous = ordinal
+    composite = _is_typical_year(list(days.values()))
     calendar = {o: o * per_day for o in days}
     if composite:
         notes.append(
@@ -621,6 +629,17 @@ def _finish(raw: _Raw) -> WeatherSeries:
         warnings=tuple(notes),
         station=raw.station,
     )
+
+
+def _is_typical_year(days: list[date]) -> bool:
+    """True for a typical-year file: months in calendar order, taken from different years.
+
+    ``days`` are the distinct days in file order. A chronological file changes year only
+    between Dec 31 and Jan 1 (or across a gap, where the month number then goes down).
+    """
+    pairs = list(zip(days, days[1:], strict=False))
+    odd_change = any(a.year != b.year and abs(b.toordinal() - a.toordinal()) > 1 for a, b in pairs)
+    return odd_change and all(a.month <= b.month for a, b in pairs)
 
 
 def _days_of(stamps: list[int]) -> list[int]:

@@ -32,7 +32,7 @@ CAVITY_TYPES = {
 LAYER_KEYS = (
     "type", "name", "thickness", "r", "conductivity", "material",
     "cavity_type", "cavity_r", "batt_r", "batt_thickness", "cavity_material", "cavity_conductivity",
-    "lumber", "spacing", "fraction", "framing_conductivity",
+    "lumber", "spacing", "fraction", "framing_conductivity", "vapour_sd",
 )  # fmt: skip
 
 
@@ -61,7 +61,8 @@ class AssemblyForm:
 def _num(value: float | None) -> str:
     if value is None:
         return ""
-    return f"{value:.4g}" if abs(value) < 1e4 else f"{value:.0f}"
+    # enough digits that loading and saving a document unchanged keeps its numbers
+    return f"{value:.12g}"
 
 
 def _length_text(value: float | None, units: Units) -> str:
@@ -83,6 +84,7 @@ def form_from_document(doc: dict[str, Any], units: Units) -> AssemblyForm:
     )
     for layer in doc.get("layers", []):
         v: dict[str, str] = {"name": layer.get("name", "")}
+        v["vapour_sd"] = _num(layer.get("vapour_sd_m"))
         v["thickness"] = _length_text(layer.get("thickness"), units)
         if "cavity" in layer and layer["cavity"] is not None:
             v["type"] = "framed"
@@ -173,6 +175,10 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
         layer.errors.clear()
         kind = layer.get("type")
         out: dict[str, Any] = {"name": layer.get("name")[:120]}
+        if layer.get("vapour_sd"):
+            sd = _parse_number(layer, "vapour_sd", positive=False)
+            if sd is not None:
+                out["vapour_sd_m"] = sd
         if kind == "framed":
             thickness = _parse_length(layer, "thickness", units, required=not layer.get("lumber"))
             if thickness is not None:
@@ -252,6 +258,7 @@ _DOC_TO_FORM = {
     "cavity.batt.thickness_nominal": "batt_thickness", "framing.fraction": "fraction",
     "framing.lumber": "lumber", "framing.spacing": "spacing",
     "framing.conductivity": "framing_conductivity", "framing.material": "framing_conductivity",
+    "vapour_sd_m": "vapour_sd",
 }  # fmt: skip
 
 

@@ -400,12 +400,6 @@ def test_thickness_bad_input_is_422(body: dict[str, Any], field: str) -> None:
     _assert_422(client.post(THICKNESS_URL, json=body), field)
 
 
-@pytest.mark.xfail(
-    reason="BUG: /calc/thickness with target_r 1e308 and conductivity 1e308 (ip) overflows: "
-    "format_inches(inf) raises OverflowError -> 500; in si (target_r 1e300, conductivity 1e10) "
-    "it returns 200 with thickness null and thickness_label 'inf mm'; expected 422",
-    strict=True,
-)
 @pytest.mark.parametrize(
     "body",
     [
@@ -526,14 +520,6 @@ def test_huge_thickness_si_computes() -> None:
     assert response.json()["r_total"] == pytest.approx(2.5e306, rel=1e-9)
 
 
-@pytest.mark.xfail(
-    reason="BUG: a number that overflows or underflows in unit conversion reaches physics as "
-    "inf or 0 and the ValueError raised while building layers (layer_r, batt_in_cavity) is not "
-    "turned into InputError: ip thickness 1e308 + conductivity -> 500 'thickness must be a "
-    "finite number'; same for a framed layer of thickness 1e308 in; si thickness 5e-324 mm "
-    "(-> 0 m) -> 500; framing lumber '0x0 rough' with no thickness -> 500; expected 422",
-    strict=True,
-)
 @pytest.mark.parametrize(
     "body",
     [
@@ -614,11 +600,6 @@ def test_never_a_500_on_random_layers(units: str, films: str, layers: list[Any])
     assert _send(units, films, layers) in (200, 422)
 
 
-@pytest.mark.xfail(
-    reason="BUG: with extreme floats (1e308 in ip, 5e-324 mm in si) random layers reach a 500: "
-    "see test_overflowing_inputs_are_422 (the physics ValueError escapes the layer builder)",
-    strict=True,
-)
 @settings(max_examples=150, deadline=None)
 @given(
     units=st.sampled_from(["ip", "si"]),

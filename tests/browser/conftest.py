@@ -35,7 +35,11 @@ def _free_port() -> int:
 @pytest.fixture(scope="session")
 def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[str]:
     db = tmp_path_factory.mktemp("live") / "live.db"
-    env = {**os.environ, "WARMSTEAD_DATABASE_URL": f"sqlite:///{db}", "WARMSTEAD_ENVIRONMENT": "test"}
+    env = {
+        **os.environ,
+        "WARMSTEAD_DATABASE_URL": f"sqlite:///{db}",
+        "WARMSTEAD_ENVIRONMENT": "test",
+    }
     exe = Path(sys.executable).parent / "warmstead"
     subprocess.run([str(exe), "migrate"], env=env, check=True, capture_output=True)
     subprocess.run([str(exe), "demo"], env=env, check=True, capture_output=True)
@@ -65,7 +69,9 @@ def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[str]:
 @pytest.fixture(scope="session")
 def browser():  # type: ignore[no-untyped-def]
     if not Path(CHROMIUM).exists() and not shutil.which("chromium"):
-        pytest.skip("Debian's chromium is not installed (make browser installs it); browser tests skipped")
+        pytest.skip(
+            "Debian's chromium is not installed (make browser installs it); browser tests skipped"
+        )
     sync_api = pytest.importorskip("playwright.sync_api")
     with sync_api.sync_playwright() as p:
         b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS, headless=True)

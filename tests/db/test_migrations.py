@@ -66,6 +66,8 @@ def test_builtin_library_seeded(db_url: str) -> None:
 
     engine = make_engine(db_url)
     with engine.connect() as conn:
-        count = conn.execute(text("SELECT count(*) FROM materials WHERE organization_id IS NULL")).scalar()
+        count = conn.execute(
+            text("SELECT count(*) FROM materials WHERE organization_id IS NULL")
+        ).scalar()
     engine.dispose()
     assert count == len(load_builtin_materials())

@@ -20,7 +20,7 @@ TYPICAL = typical_assemblies()
 SLUGS = sorted(TYPICAL)
 #: layer keys the form does not carry yet: checked on their own in
 #: test_round_trip_keeps_vapour_sd, so the numeric round trip below stays meaningful
-NOT_IN_FORM = {"vapour_sd_m"}
+NOT_IN_FORM: set[str] = set()  # every document field has a form field
 
 
 def _strip(value: Any) -> Any:
@@ -74,12 +74,6 @@ def test_round_trip_ip(slug: str) -> None:
 _WITH_SD = [s for s in SLUGS if any("vapour_sd_m" in x for x in TYPICAL[s].document_ip["layers"])]
 
 
-@pytest.mark.xfail(
-    reason="BUG: the layer form has no field for a layer's vapour_sd_m (LayerInput field used "
-    "by the dew-point check; typical assemblies set it, e.g. gypsum 0.13 m): form_from_document "
-    "-> document_from_form drops it, so saving a surface through the editor loses it",
-    strict=True,
-)
 @pytest.mark.parametrize("slug", _WITH_SD[:1] or ["wall-2x4-16-r13"])
 def test_round_trip_keeps_vapour_sd(slug: str) -> None:
     doc = TYPICAL[slug].document_ip
@@ -89,13 +83,6 @@ def test_round_trip_keeps_vapour_sd(slug: str) -> None:
         assert new.get("vapour_sd_m") == old.get("vapour_sd_m")
 
 
-@pytest.mark.xfail(
-    reason="BUG: form_from_document writes numbers with 4 significant figures (_num uses "
-    "'.4g'), so loading a saved si assembly into the form and saving it unchanged alters it: "
-    "e.g. R-13 batt = 2.2894324 m²·K/W comes back as 2.289, 7/16 in OSB = 11.1125 mm as "
-    "11.11, k 0.1153823 as 0.1154 (expected the same numbers within 1e-9)",
-    strict=True,
-)
 @pytest.mark.parametrize("slug", ["wall-2x4-16-r13", "attic-2x6-16-r19"])
 def test_round_trip_si(slug: str) -> None:
     doc = convert_assembly(TYPICAL[slug].document_ip, "ip", "si")

@@ -56,12 +56,6 @@ def test_bad_lumber_labels(label: str) -> None:
         lumber_size(label)
 
 
-@pytest.mark.xfail(
-    reason="BUG: lumber_size('0x4 rough') and ('2x0 rough') return a Lumber of zero width or "
-    "zero depth instead of raising ValueError; via the API a '0x0 rough' framed layer without "
-    "thickness then reaches layer_r(0, k) and returns 500",
-    strict=True,
-)
 @pytest.mark.parametrize("label", ["0x4 rough", "2x0 rough"])
 def test_zero_size_rough_lumber_refused(label: str) -> None:
     with pytest.raises(ValueError):
@@ -145,12 +139,6 @@ def test_batt_refuses_zero_or_negative(args: tuple[float, float, float]) -> None
         batt_in_cavity(*args)
 
 
-@pytest.mark.xfail(
-    reason="BUG: batt_in_cavity accepts NaN and infinity: (nan, 0.1, 0.1) returns r_si=nan, "
-    "(3.0, nan, 0.1) returns nan with a 'compressed to nan%' warning, (inf, 0.1, 0.05) returns "
-    "inf; expected ValueError (the `<= 0` checks let non-finite values through)",
-    strict=True,
-)
 @pytest.mark.parametrize(
     "args", [(math.nan, 0.1, 0.1), (3.0, math.nan, 0.1), (math.inf, 0.1, 0.05)]
 )
@@ -214,11 +202,6 @@ def test_steel_refuses_zero_or_negative_cavity() -> None:
         steel_stud_effective_r(-1.0, 3.5 * INCH_M)
 
 
-@pytest.mark.xfail(
-    reason="BUG: steel_stud_effective_r(nan, 0.0889) raises UnboundLocalError ('factor' is "
-    "never set) and (inf, 0.0889) returns inf; expected ValueError for non-finite cavity R",
-    strict=True,
-)
 @pytest.mark.parametrize("cavity_r", [math.nan, math.inf])
 def test_steel_refuses_non_finite_cavity(cavity_r: float) -> None:
     with pytest.raises(ValueError):

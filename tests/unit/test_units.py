@@ -205,22 +205,11 @@ def test_parse_length_absurdly_long_number_is_a_value_error() -> None:
         parse_length("1" * 400)
 
 
-@pytest.mark.xfail(
-    reason="BUG: the feet-and-inches branch of parse_length returns before the finite/positive "
-    "check: 400 digits followed by a foot mark and 6 inches returns inf (float of 400 digits is "
-    "inf) instead of raising ValueError",
-    strict=True,
-)
 def test_parse_length_absurd_feet_is_a_value_error() -> None:
     with pytest.raises(ValueError):
         parse_length("1" * 400 + "' 6\"")
 
 
-@pytest.mark.xfail(
-    reason="BUG: parse_length of 5 ft 0 in (5' 0\") raises ValueError 'must be a length greater "
-    "than zero' because the inches part is parsed as a length of its own; expected 60 in",
-    strict=True,
-)
 def test_parse_length_feet_and_zero_inches() -> None:
     # 5' 0" = 5 x 12 + 0 = 60 in
     assert parse_length("5' 0\"") / INCH_M == pytest.approx(60.0, rel=1e-12)

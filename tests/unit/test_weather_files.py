@@ -378,3 +378,19 @@ def _timed(function, data) -> float:
     start = time.perf_counter()
     function(data)
     return time.perf_counter() - start
+
+
+def test_daily_duplicate_day_is_counted_and_stays_daily():
+    rows = [f"{date(2021, 1, 1) + timedelta(days=i)},{i}" for i in range(5)] + ["2021-01-03,9"]
+    series = parse_weather_file(csv_bytes("date,temp_c", rows))
+    assert series.kind == "csv-daily" and series.temperatures_c == (0.0, 1.0, 2.0, 3.0, 4.0)
+    assert warning_with(series, "duplicate").startswith("1 duplicate days")
+
+
+def test_chronological_gap_over_new_year_is_a_gap_not_a_typical_year():
+    # Dec 1-10 2020 then Jan 21-31 2021: 41 - 11... worked: Dec 11 .. Jan 20 = 21 + 20 = 41
+    # days missing; the month number goes down (12 -> 1), so this is not a typical year.
+    days = [date(2020, 12, d) for d in range(1, 11)] + [date(2021, 1, d) for d in range(21, 32)]
+    series = parse_weather_file(csv_bytes("date,temp_c", [f"{d},1" for d in days]))
+    assert not any("mixes years" in w for w in series.warnings)
+    assert warning_with(series, "missing in").startswith("41 days are missing in 1 gap")
