@@ -30,7 +30,7 @@ CAUTIONS: dict[str, tuple[str, ...]] = {
 }
 KIND_TOPICS = {
     "ceiling": ("attic",),
-    "cathedral": ("attic",),
+    "cathedral_roof": ("attic",),
     "kneewall": ("attic", "walls"),
     "wall": ("walls",),
     "rim_joist": ("walls", "foam"),

@@ -2,11 +2,14 @@
 
 from __future__ import annotations
 
+import copy
+
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from server.models import House
+from server.models import House, Package, Upgrade
 from server.services.houses import add_surface, create_house, default_organization
+from server.services.typical import typical_assemblies
 
 DEMO_LABEL = "Demo: 14 Quillfeather Row"
 
@@ -49,6 +52,79 @@ def load_demo_house(*, session: Session) -> int:
         "loan": {"apr": 0.065, "years": 10},
     }
     session.flush()
+    surfaces = {}
     for typical, name, area in DEMO_SURFACES:
-        add_surface(session=session, house=house, name=name, kind="", area=area, typical=typical)
+        surface = add_surface(
+            session=session, house=house, name=name, kind="", area=area, typical=typical
+        )
+        surfaces[typical] = surface
+    for i, (slug, name, document) in enumerate(_demo_upgrades(surfaces)):
+        session.add(
+            Upgrade(house=house, position=i, slug=slug, name=name, kind="", document=document)
+        )
+    session.add(Package(house=house, position=0, slug="attic-and-air", name="Attic + air sealing",
+                        upgrade_slugs=["attic-r49", "air-seal"]))  # fmt: skip
+    session.add(Package(house=house, position=1, slug="whole-house", name="Whole envelope",
+                        upgrade_slugs=["attic-r49", "air-seal", "walls-dense-pack", "floor-r30", "rim-foam"]))  # fmt: skip
+    session.flush()
     return house.id
+
+
+def _demo_upgrades(surfaces):  # type: ignore[no-untyped-def]
+    """Candidate upgrades with invented but plausible prices (demo data, not a price list)."""
+    typ = typical_assemblies()
+    attic = copy.deepcopy(typ["attic-2x6-16-empty"].document_ip)
+    attic["layers"].insert(0, {"name": "blown cellulose, ~13 in", "r": 47.0})
+    rim = copy.deepcopy(typ["rim-2x10-empty"].document_ip)
+    rim["layers"].append({"name": "2 in closed-cell spray foam", "thickness": 2.0, "r": 13.0})
+    return [
+        (
+            "attic-r49",
+            "Attic: blow R-47 cellulose over the joists",
+            {
+                "surface": surfaces["attic-2x6-16-empty"].slug,
+                "assembly": attic,
+                "cost": {"fixed": 350, "per_area": 1.35},
+                "rebate": 300,
+                "life_years": 30,
+            },
+        ),
+        (
+            "air-seal",
+            "Air sealing to 2,300 CFM50",
+            {"cfm50_after": 2300, "cost": {"fixed": 1350}, "rebate": 250, "life_years": 20},
+        ),
+        (
+            "walls-dense-pack",
+            "Walls: dense-pack cellulose",
+            {
+                "surface": surfaces["wall-2x4-16-empty"].slug,
+                "assembly": typ["wall-2x4-16-dense-pack"].document_ip,
+                "cost": {"fixed": 400, "per_area": 2.10},
+                "rebate": 0,
+                "life_years": 30,
+            },
+        ),
+        (
+            "floor-r30",
+            "Crawlspace floor: R-30 batts",
+            {
+                "surface": surfaces["floor-2x10-16-empty"].slug,
+                "assembly": typ["floor-2x10-16-r30"].document_ip,
+                "cost": {"fixed": 250, "per_area": 1.75},
+                "rebate": 0,
+                "life_years": 30,
+            },
+        ),
+        (
+            "rim-foam",
+            "Rim joist: 2 in closed-cell foam",
+            {
+                "surface": surfaces["rim-2x10-empty"].slug,
+                "assembly": rim,
+                "cost": {"fixed": 150, "per_area": 3.40},
+                "rebate": 0,
+                "life_years": 30,
+            },
+        ),
+    ]

@@ -19,7 +19,7 @@ from server.services.typical import typical_assemblies
 
 SURFACE_KINDS = {
     "ceiling": "Attic floor / ceiling",
-    "cathedral": "Cathedral roof",
+    "cathedral_roof": "Cathedral roof",
     "wall": "Wall",
     "kneewall": "Kneewall",
     "rim_joist": "Rim joist",
@@ -28,7 +28,7 @@ SURFACE_KINDS = {
     "door": "Door",
     "window": "Window",
 }
-DEFAULT_HEAT_FLOW = {"ceiling": "up", "cathedral": "up", "floor": "down"}
+DEFAULT_HEAT_FLOW = {"ceiling": "up", "cathedral_roof": "up", "floor": "down"}
 
 
 class NotFound(Exception):

@@ -2,7 +2,7 @@
 
 Kinds read:
 
-* ``epw``: EnergyPlus weather file: 8 header lines, then comma-separated rows whose fields
+* ``epw``: EPW weather file: 8 header lines, then comma-separated rows whose fields
   1–4 are year, month, day, hour (1..24, hour-ending) and field 7 is dry-bulb [°C]
   (99.9 marks a missing value).
 * ``tmy3``: two header lines (station, column names), columns ``Date (MM/DD/YYYY)``,
@@ -31,7 +31,7 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import date, datetime
 from itertools import repeat
-from operator import add, floordiv, mod
+from operator import add, floordiv, itemgetter, methodcaller, mod
 
 from server.errors import InputError
 from server.physics.units import f_to_c
@@ -454,72 +454,83 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
                 f"no unit; its values were read as °{unit}; send temperature_unit to say otherwise"
             )
     layout, time_cols = _time_layout(names)
-    body = [line for line in lines[header_at + 1 :] if line.strip()]
-    quoted = any('"' in line for line in body)
+    body = lines[header_at + 1 :]
     split = (
         list(csv.reader(body, delimiter=delimiter))
-        if quoted
-        else [line.split(delimiter) for line in body]
+        if any('"' in line for line in body)
+        else list(map(methodcaller("split", delimiter), body))
     )
     width = max(time_cols + temp_cols) + 1
-    rows = [row for row in split if len(row) >= width]
-    skipped = len(split) - len(rows)
+    rows, skipped = split, 0
+    if split and min(map(len, split)) < width:  # blank or short rows
+        rows = [row for row in split if len(row) >= width]
+        skipped = sum(1 for row in split if len(row) < width and "".join(row).strip())
+    if not rows:
+        raise _fail("the file has a header but no data rows")
+
+    def column(index: int) -> list[str]:
+        return list(map(itemgetter(index), rows))
+
+    day_of: Callable[[object], int | None]
     if layout == "ymdh":
-        day_keys: list[object] = [tuple(r[i].strip() for i in time_cols[:3]) for r in rows]
-        clock_keys: list[object] = [
-            f"{r[time_cols[3]].strip()}:00" if len(time_cols) > 3 else "" for r in rows
-        ]
-        day_of: Callable[[object], int | None] = lambda key: _day_number(*key)  # type: ignore[misc]  # noqa: E731
+        day_keys: list[object] = list(zip(*(column(i) for i in time_cols[:3]), strict=True))
+        hours = column(time_cols[3]) if len(time_cols) > 3 else None
+        clock_keys: list[object] = [f"{h.strip()}:00" for h in hours] if hours else [""] * len(rows)
+        day_of = lambda key: _day_number(*key)  # type: ignore[misc]  # noqa: E731
     else:
         if layout == "date+time":
-            day_keys = [r[time_cols[0]].strip() for r in rows]
-            clock_keys = [r[time_cols[1]].strip() for r in rows]
+            day_keys = [text.strip() for text in column(time_cols[0])]
+            clock_keys = [text.strip() for text in column(time_cols[1])]
         else:
-            split_stamps = [
-                r[time_cols[0]].strip().replace("T", " ", 1).partition(" ") for r in rows
-            ]
-            day_keys = [p[0] for p in split_stamps]
-            clock_keys = [p[2].strip() for p in split_stamps]
-        day_of = _date_reader(set(day_keys))  # type: ignore[arg-type]
-    cells = [[r[i].strip() for i in temp_cols] for r in rows]
-    if delimiter == ";":
-        cells = [[c.replace(",", ".") for c in group] for group in cells]
+            stamps_text = column(time_cols[0])
+            separator = "T" if re.match(r"\s*\d[\d/.-]*T\d", stamps_text[0]) else None
+            pieces = list(map(methodcaller("split", separator, 1), stamps_text))
+            sizes = set(map(len, pieces))  # 2: date and clock; 1: date only; 0: blank
+            if sizes == {2}:
+                day_keys = list(map(str.strip, map(itemgetter(0), pieces)))
+                clock_keys = list(map(str.strip, map(itemgetter(1), pieces)))
+            else:
+                day_keys = [p[0].strip() if p else "" for p in pieces]
+                clock_keys = [p[1].strip() if len(p) > 1 else "" for p in pieces]
+        day_of = _date_reader({str(key) for key in day_keys})
+    texts = [column(i) for i in temp_cols]
+    if delimiter == ";":  # decimal commas
+        texts = [[text.replace(",", ".") for text in col] for col in texts]
+    numbers = [_floats(col) for col in texts]
     values = (
-        [
-            math.fsum(g) / len(g)
-            for g in zip(*[_floats(col) for col in zip(*cells, strict=True)], strict=True)
-        ]
-        if cells
-        else []
+        numbers[0] if len(numbers) == 1 else [(a + b) / 2 for a, b in zip(*numbers, strict=True)]
     )
     if unit == "F":
         values = list(map(f_to_c, values))
-    found_days = {key: day_of(key) for key in set(day_keys)}
-    days = {key: day for key, day in found_days.items() if day is not None}
-    found_clocks = {key: _clock_minutes(key) for key in set(clock_keys)}
-    clocks = {key: minute for key, minute in found_clocks.items() if minute is not None}
+    distinct_days, distinct_clocks = set(day_keys), set(clock_keys)
+    days = {key: day for key in distinct_days if (day := day_of(key)) is not None}
+    clocks = {key: m for key in distinct_clocks if (m := _clock_minutes(key)) is not None}
     if any("Z" in str(k) or "+" in str(k) or "GMT" in str(k) or "UTC" in str(k) for k in clocks):
         notes.append("time-zone offsets in the timestamps were ignored; clock times were used")
-    keep = [
-        i
-        for i, (d, c) in enumerate(zip(day_keys, clock_keys, strict=True))
-        if d in days and c in clocks
-    ]
-    skipped += len(rows) - len(keep)
-    if not keep:
-        if not rows:
-            raise _fail("the file has a header but no data rows")
-        where = " and ".join(f"'{names[i]}'" for i in time_cols[:2])
-        raise _fail(
-            f"the dates in {where} could not be read; write them like 2024-01-31 13:00 or "
-            "01/31/2024 13:00"
-        )
-    ordinals = [days[day_keys[i]] for i in keep]
-    minutes = [clocks[clock_keys[i]] for i in keep]
-    values = [values[i] for i in keep]
-    if all(math.isnan(v) for v in values):
+    if len(days) < len(distinct_days) or len(clocks) < len(distinct_clocks):
+        keep = [
+            i
+            for i, (d, c) in enumerate(zip(day_keys, clock_keys, strict=True))
+            if d in days and c in clocks
+        ]
+        skipped += len(rows) - len(keep)
+        if not keep:
+            where = " and ".join(f"'{names[i]}'" for i in time_cols[:2])
+            raise _fail(
+                f"the dates in {where} could not be read; write them like 2024-01-31 13:00 or "
+                "01/31/2024 13:00"
+            )
+        day_keys, clock_keys = [day_keys[i] for i in keep], [clock_keys[i] for i in keep]
+        values = [values[i] for i in keep]
+    if not any(v == v for v in values):  # every value is NaN (v == v is False only for NaN)
         raise _fail(f"the temperature column '{names[temp_cols[0]]}' holds no numbers")
-    stamps = [d * 1440 + max(m, 0) for d, m in zip(ordinals, minutes, strict=True)]
+    ordinals = list(map(days.__getitem__, day_keys))
+    minutes = list(map(clocks.__getitem__, clock_keys))
+    day_starts = {key: day * 1440 for key, day in days.items()}
+    clock_starts = {key: max(m, 0) for key, m in clocks.items()}
+    stamps = list(
+        map(add, map(day_starts.__getitem__, day_keys), map(clock_starts.__getitem__, clock_keys))
+    )
     if max(minutes) < 0 or len(set(stamps)) == len(set(ordinals)):
         # no clock times, or one time a day: daily values
         return _Raw("csv-daily", ordinals, values, False, notes, skipped=skipped)

@@ -4,7 +4,7 @@ Files here are generated in the test with known values, so each expectation is w
 EPW layout (8 header lines; fields 1-4 year, month, day, hour 1..24 hour-ending; field 7
 dry-bulb °C; 99.9 missing) and TMY3 layout (two header lines; 'Date (MM/DD/YYYY)',
 'Time (HH:MM)', 'Dry-bulb (C)'; 01:00..24:00 hour-ending; -9900 missing) follow the formats'
-published descriptions (EnergyPlus auxiliary programs, weather data; TMY3 users' manual).
+published descriptions (EPW format documentation, weather data; TMY3 users' manual).
 """
 
 from __future__ import annotations

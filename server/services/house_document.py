@@ -1,0 +1,103 @@
+"""A saved house <-> the HouseDocument of POST /api/v1/calc/house (export, import, compare)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from pydantic import ValidationError
+from sqlalchemy.orm import Session
+
+from server.documents.house import HouseDocument
+from server.errors import InputError
+from server.models import House, Package, Surface, Upgrade
+from server.services.houses import create_house
+
+#: defaults for a house whose systems are not entered yet (common practice, shown as assumptions)
+DEFAULT_CLIMATE = {"hdd": 5000.0, "cdd": 800.0}
+DEFAULT_HEATING = {"fuel": "natural_gas", "efficiency": 0.80, "price": 1.40}
+
+
+def house_document(house: House, *, extra_package: list[str] | None = None) -> HouseDocument:
+    """The house as one document; ``extra_package`` adds a package of chosen upgrade ids."""
+    surfaces = [
+        {"id": s.slug, "kind": s.kind, "name": s.name, "area": s.area, "assembly": s.assembly}
+        for s in house.surfaces
+    ]
+    known = {u.slug for u in house.upgrades}
+    packages = [
+        {"id": p.slug, "name": p.name, "upgrades": [x for x in p.upgrade_slugs if x in known]}
+        for p in house.packages
+        if any(x in known for x in p.upgrade_slugs)
+    ]
+    chosen = [x for x in (extra_package or []) if x in known]
+    if chosen:
+        packages.append({"id": "your-selection", "name": "Your selection", "upgrades": chosen})
+    body: dict[str, Any] = {
+        "units": house.units,
+        "name": house.label,
+        "climate": house.climate or DEFAULT_CLIMATE,
+        "heating": house.heating or DEFAULT_HEATING,
+        "surfaces": surfaces,
+        "upgrades": [{"id": u.slug, "name": u.name, **u.document} for u in house.upgrades],
+        "packages": packages,
+        "economics": house.economics or {},
+    }
+    if house.cooling:
+        body["cooling"] = house.cooling
+    if house.air_leakage:
+        body["air_leakage"] = house.air_leakage
+    try:
+        return HouseDocument.model_validate(body)
+    except ValidationError as exc:
+        first = exc.errors()[0]
+        raise InputError(".".join(str(p) for p in first["loc"]), first["msg"]) from None
+
+
+def import_house(*, session: Session, organization_id: int, document: HouseDocument) -> House:
+    """Create a saved house from a document (the inverse of :func:`house_document`)."""
+    house = create_house(
+        session=session,
+        organization_id=organization_id,
+        label=document.name or "Imported house",
+        units=document.units,
+    )
+    house.climate = document.climate.model_dump(exclude_none=True)
+    house.heating = document.heating.model_dump(exclude_none=True)
+    house.cooling = document.cooling.model_dump(exclude_none=True) if document.cooling else None
+    house.air_leakage = (
+        document.air_leakage.model_dump(exclude_none=True) if document.air_leakage else None
+    )
+    house.economics = document.economics.model_dump(exclude_none=True)
+    for i, s in enumerate(document.surfaces):
+        if s.assembly is None:
+            raise InputError(f"surfaces[{i}].assembly", "saved houses need each surface's layers")
+        session.add(
+            Surface(
+                house=house, position=i, slug=s.id, name=s.name or s.id, kind=s.kind,
+                area=s.area or 0.0, assembly=s.assembly.model_dump(exclude_none=True),
+            )
+        )  # fmt: skip
+    for i, u in enumerate(document.upgrades):
+        doc = u.model_dump(exclude_none=True, exclude={"id", "name"})
+        session.add(
+            Upgrade(
+                house=house,
+                position=i,
+                slug=u.id,
+                name=u.name or u.id,
+                kind=u.kind or "",
+                document=doc,
+            )
+        )
+    for i, p in enumerate(document.packages):
+        session.add(
+            Package(
+                house=house,
+                position=i,
+                slug=p.id,
+                name=p.name or p.id,
+                upgrade_slugs=list(p.upgrades),
+            )
+        )
+    session.flush()
+    return house

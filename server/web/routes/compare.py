@@ -1,0 +1,77 @@
+"""Compare page: as found vs each package, from the same compute_house as the API."""
+
+from __future__ import annotations
+
+from fastapi import APIRouter, Query, Request
+
+from server.errors import InputError
+from server.services import houses as svc
+from server.services.cautions import GENERAL, cautions_for
+from server.services.house import compute_house
+from server.services.house_document import house_document
+from server.services.library import catalog_for
+from server.web.charts import bar_chart, cash_flow_chart
+from server.web.deps import OrgDep, SessionDep, render
+
+router = APIRouter()
+
+
+def compare_context(house, catalog, chosen: list[str]) -> dict:  # type: ignore[no-untyped-def]
+    """Everything the compare page (and the homeowner's view) shows."""
+    try:
+        doc = house_document(house, extra_package=chosen)
+        result = compute_house(doc, catalog=catalog)
+    except InputError as exc:
+        return {"house": house, "error": f"{exc.field}: {exc.message}", "result": None}
+    ua_unit = "Btu/(h·°F)" if house.units == "ip" else "W/K"
+    share_rows = [
+        (s.name or s.id, s.share_of_ua, f"{s.share_of_ua:.0%}") for s in result.as_found.surfaces
+    ]
+    if result.as_found.ua_infiltration:
+        share = result.as_found.ua_infiltration / result.as_found.ua
+        share_rows.append(("Air leakage", share, f"{share:.0%}"))
+    options = [("As found", result.as_found.total_cost)] + [
+        (p.name or p.id, p.total_cost) for p in result.packages
+    ]
+    cost_rows = [(label, cost, f"${cost:,.0f}/yr") for label, cost in options]
+    flows = [
+        (p.name or p.id, list(p.cash_flow.cumulative_discounted))
+        for p in result.packages
+        if p.cash_flow
+    ]
+    kinds = sorted({s.kind for s in house.surfaces})
+    topics = ("air_sealing",) if any(u.document.get("cfm50_after") for u in house.upgrades) else ()
+    return {
+        "house": house,
+        "result": result,
+        "error": None,
+        "chosen": chosen,
+        "upgrades": house.upgrades,
+        "ua_unit": ua_unit,
+        "share_svg": bar_chart(share_rows, title="Share of heat loss by surface, as found"),
+        "cost_svg": bar_chart(cost_rows, title="Annual energy cost: as found and each package"),
+        "flow_svg": cash_flow_chart(
+            flows, title="Cumulative discounted cash flow (crosses zero at payback)"
+        )
+        if flows
+        else "",
+        "cautions": cautions_for(kinds, extra_topics=topics),
+        "general_caution": GENERAL,
+    }
+
+
+@router.get("/houses/{house_id}/compare", name="compare")
+def compare_page(  # type: ignore[no-untyped-def]
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    house_id: int,
+    pick: list[str] = Query(default=[]),
+):
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    catalog = catalog_for(session=session, organization_id=org.id)
+    context = compare_context(house, catalog, pick)
+    template = (
+        "partials/compare_body.html" if request.headers.get("HX-Request") else "pages/compare.html"
+    )
+    return render(request, template, context)
