@@ -27,7 +27,8 @@ from server.config import Settings  # noqa: E402
 from server.db import make_engine  # noqa: E402
 
 PG_URL = os.environ.get("WARMSTEAD_TEST_POSTGRES_URL", "postgresql://postgres@127.0.0.1:5432/test")
-PG_SCHEMA = "warmstead_test"
+#: one schema per test run, so two runs on one server never trample each other
+PG_SCHEMA = f"warmstead_test_{os.getpid()}"
 TABLES_CHILD_FIRST = ["packages", "upgrades", "surfaces", "houses", "organizations"]
 
 
@@ -55,6 +56,13 @@ def reset_pg_schema(schema: str) -> None:
     engine.dispose()
 
 
+def drop_pg_schema(schema: str) -> None:
+    engine = make_engine(PG_URL)
+    with engine.begin() as conn:
+        conn.execute(text(f'DROP SCHEMA IF EXISTS "{schema}" CASCADE'))
+    engine.dispose()
+
+
 @pytest.fixture(scope="session")
 def sqlite_template(tmp_path_factory: pytest.TempPathFactory) -> Path:
     path = tmp_path_factory.mktemp("db") / "template.db"
@@ -63,14 +71,15 @@ def sqlite_template(tmp_path_factory: pytest.TempPathFactory) -> Path:
 
 
 @pytest.fixture(scope="session")
-def pg_migrated() -> str:
+def pg_migrated() -> Iterator[str]:
     reason = _pg_reachable()
     if reason:
         pytest.skip(reason)
     reset_pg_schema(PG_SCHEMA)
     url = pg_schema_url(PG_SCHEMA)
     migrate(url)
-    return url
+    yield url
+    drop_pg_schema(PG_SCHEMA)
 
 
 @pytest.fixture(params=["sqlite", pytest.param("postgres", marks=pytest.mark.postgres)])

@@ -374,3 +374,48 @@ def variable_base_degree_days(
         )
     hdd = heating_degree_days([d.mean_c for d in days], balance)
     return VariableBaseDegreeDays(balance_point_c=balance, hdd_k_day=hdd, days=len(days))
+
+
+def interpolate_degree_days(
+    bases_c: Sequence[float], degree_days_k_day: Sequence[float], base_c: float
+) -> float:
+    """Degree-days at any base from a table of degree-days by base [K·day].
+
+    Parameters
+    ----------
+    bases_c : sequence of float
+        Table bases in ascending order [°C] (e.g. a saved climate's ``degree_days_by_base``).
+    degree_days_k_day : sequence of float
+        HDD (or CDD) at each table base [K·day].
+    base_c : float
+        The base wanted, e.g. a balance point from :func:`balance_point_temperature_c` [°C].
+
+    Returns
+    -------
+    float
+        DD(b) = DD_i + (b − b_i) (DD_{i+1} − DD_i) / (b_{i+1} − b_i) for b_i <= b <= b_{i+1}.
+        HDD is convex in the base, so this slightly overestimates between table points (by at
+        most a quarter of the step per day whose mean lies between them); use
+        :func:`variable_base_degree_days` when the daily means are at hand [1].
+
+    Raises
+    ------
+    ValueError
+        When the table is empty, not ascending, of unequal lengths, or ``base_c`` lies outside.
+    """
+    base_c = _check_finite(base_c, "base")
+    if len(bases_c) != len(degree_days_k_day) or not bases_c:
+        raise ValueError("the table needs one degree-day value per base")
+    if any(upper <= lower for lower, upper in zip(bases_c, bases_c[1:], strict=False)):
+        raise ValueError("the table bases must be in ascending order")
+    if not bases_c[0] <= base_c <= bases_c[-1]:
+        raise ValueError(
+            f"the base {base_c:g} °C is outside the table ({bases_c[0]:g} to {bases_c[-1]:g} °C)"
+        )
+    for index in range(len(bases_c) - 1):
+        low, high = bases_c[index], bases_c[index + 1]
+        if low <= base_c <= high:
+            share = (base_c - low) / (high - low)
+            lower, upper = degree_days_k_day[index], degree_days_k_day[index + 1]
+            return lower + share * (upper - lower)
+    return float(degree_days_k_day[0])  # a one-row table holding exactly this base

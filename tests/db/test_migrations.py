@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 from pathlib import Path
 
 import pytest
@@ -11,7 +12,7 @@ from sqlalchemy import inspect, text
 
 from server.config import ROOT
 from server.db import make_engine
-from tests.conftest import _pg_reachable, pg_schema_url, reset_pg_schema
+from tests.conftest import _pg_reachable, drop_pg_schema, pg_schema_url, reset_pg_schema
 
 TABLES = {"organizations", "materials", "houses", "surfaces", "upgrades", "packages"}
 
@@ -46,8 +47,12 @@ def test_postgres_upgrade_downgrade() -> None:
     reason = _pg_reachable()
     if reason:
         pytest.skip(reason)
-    reset_pg_schema("warmstead_migrations")
-    _round_trip(pg_schema_url("warmstead_migrations"))
+    schema = f"warmstead_migrations_{os.getpid()}"
+    reset_pg_schema(schema)
+    try:
+        _round_trip(pg_schema_url(schema))
+    finally:
+        drop_pg_schema(schema)
 
 
 def test_sqlite_pragmas(tmp_path: Path) -> None:

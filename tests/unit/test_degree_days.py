@@ -293,3 +293,39 @@ def test_more_gains_never_raise_variable_base_hdd(means, setpoint, gains, ua):
         days, setpoint_c=setpoint, internal_gains_w=gains, ua_w_per_k=ua
     )
     assert more.hdd_k_day <= base.hdd_k_day + 1e-9
+
+
+# --- degree-days by base table -------------------------------------------------------------
+
+
+def test_interpolate_degree_days_hand_worked():
+    # Between (10 °C, 100) and (11 °C, 130): at 10.5 °C, 100 + 0.5 * 30 = 115 K·day.
+    assert dd.interpolate_degree_days([10.0, 11.0, 12.0], [100.0, 130.0, 165.0], 10.5) == 115.0
+    # At a table base the table value comes back (limiting case).
+    assert dd.interpolate_degree_days([10.0, 11.0, 12.0], [100.0, 130.0, 165.0], 12.0) == 165.0
+
+
+@pytest.mark.parametrize(
+    ("bases", "values", "base"),
+    [
+        ([], [], 1.0),
+        ([1.0, 2.0], [1.0], 1.5),
+        ([2.0, 1.0], [1.0, 2.0], 1.5),
+        ([1.0, 2.0], [1.0, 2.0], 3.0),
+    ],
+)
+def test_interpolate_degree_days_refuses_bad_tables(bases, values, base):
+    with pytest.raises(ValueError):
+        dd.interpolate_degree_days(bases, values, base)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.lists(TEMPS, min_size=1, max_size=200), st.floats(0.0, 30.0))
+def test_interpolated_hdd_brackets_the_direct_value(means, base):
+    # HDD is convex in the base: linear interpolation between 1 K steps is never below the
+    # direct value and at most 0.25 K·day per day above it.
+    bases = [float(b) for b in range(0, 31)]
+    table = [dd.heating_degree_days(means, b) for b in bases]
+    direct = dd.heating_degree_days(means, base)
+    interpolated = dd.interpolate_degree_days(bases, table, base)
+    assert direct - 1e-9 <= interpolated <= direct + 0.25 * len(means) + 1e-9
