@@ -29,7 +29,10 @@ from server.db import make_engine  # noqa: E402
 PG_URL = os.environ.get("WARMSTEAD_TEST_POSTGRES_URL", "postgresql://postgres@127.0.0.1:5432/test")
 #: one schema per test run, so two runs on one server never trample each other
 PG_SCHEMA = f"warmstead_test_{os.getpid()}"
-TABLES_CHILD_FIRST = ["packages", "upgrades", "surfaces", "houses", "organizations"]
+TABLES_CHILD_FIRST = [
+    "share_links", "price_book_items", "login_attempts", "packages", "upgrades", "surfaces",
+    "houses", "users", "organizations",
+]  # fmt: skip
 
 
 def _pg_reachable() -> str | None:

@@ -7,6 +7,8 @@ from typing import Annotated, Any
 
 from fastapi import Depends, Request
 from fastapi.templating import Jinja2Templates
+from jinja2 import pass_context
+from markupsafe import Markup
 from sqlalchemy.orm import Session
 
 from server.config import ROOT
@@ -39,8 +41,19 @@ def get_organization(session: SessionDep) -> Organization:
 OrgDep = Annotated[Organization, Depends(get_organization)]
 
 
+@pass_context
+def csrf_field(context: dict[str, Any]) -> Markup:
+    """The hidden CSRF input for a POST form (token from ``request.state.csrf_token``)."""
+    request = context.get("request")
+    token = getattr(getattr(request, "state", None), "csrf_token", "") if request else ""
+    if not token:
+        return Markup("")
+    return Markup('<input type="hidden" name="csrf_token" value="{}">').format(token)
+
+
 def make_templates() -> Jinja2Templates:
     templates = Jinja2Templates(directory=str(ROOT / "templates"))
+    templates.env.globals["csrf_field"] = csrf_field
     templates.env.filters.update(formatting.FILTERS)
     templates.env.globals.update(formatting.GLOBALS)
     return templates
