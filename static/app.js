@@ -27,3 +27,11 @@
     if (form && window.htmx) { window.htmx.trigger(form, "submit"); }
   });
 })();
+// Upload progress for forms that name a <progress> element in data-progress.
+document.addEventListener("htmx:xhr:progress", function (evt) {
+  "use strict";
+  var form = evt.target && evt.target.closest ? evt.target.closest("form[data-progress]") : null;
+  if (!form || !evt.detail.lengthComputable) { return; }
+  var bar = document.getElementById(form.getAttribute("data-progress"));
+  if (bar) { bar.hidden = false; bar.value = Math.round(100 * evt.detail.loaded / evt.detail.total); }
+});

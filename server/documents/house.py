@@ -59,13 +59,49 @@ SurfaceKind = Literal[
 UpgradeKind = Literal["assembly", "air_sealing", "pipe_insulation"]
 
 
+class DegreeDaysRowIn(Strict):
+    """Degree-days at one base (°F / °C; °F·day / K·day)."""
+
+    base: Annotated[float, Field(ge=-60, le=120, allow_inf_nan=False)]
+    hdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)]
+    cdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)] = 0.0
+
+
+class VariableBaseIn(Strict):
+    """Variable-base heating degree-days: HDD at each option's balance point.
+
+    balance point = setpoint − internal_gains / UA (ASHRAE Handbook—Fundamentals 2017 ch. 19);
+    ``table`` is degree-days by base, e.g. ``degree_days_by_base`` of /calc/degree-days.
+    """
+
+    setpoint: Annotated[float, Field(ge=-60, le=120, allow_inf_nan=False)] = Field(
+        description="thermostat set-point, °F or °C"
+    )
+    internal_gains: Annotated[float, Field(ge=0, le=1e7, allow_inf_nan=False)] = Field(
+        description="average internal and solar gains, Btu/h or W"
+    )
+    table: list[DegreeDaysRowIn] = Field(min_length=2, max_length=200)
+
+    @model_validator(mode="after")
+    def _ascending(self) -> VariableBaseIn:
+        bases = [row.base for row in self.table]
+        if any(b <= a for a, b in zip(bases, bases[1:], strict=False)):
+            raise ValueError("the degree-day table's bases must be in ascending order")
+        return self
+
+
 class ClimateIn(Strict):
-    """Degree-days at the house's balance bases (the bases are recorded, not used)."""
+    """Degree-days at the house's balance bases (the bases are recorded, not used).
+
+    With ``variable_base`` the heating degree-days of each option come from its balance point
+    instead of ``hdd``.
+    """
 
     hdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)]
     cdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)] = 0.0
     heating_base: Number | None = None
     cooling_base: Number | None = None
+    variable_base: VariableBaseIn | None = None
 
 
 class HeatingIn(Strict):

@@ -26,6 +26,7 @@ from __future__ import annotations
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field, replace
 
+from server.physics import degree_days as dd
 from server.physics import economics as money
 from server.physics import energy
 from server.physics.fuels import GRID_ELECTRICITY_CO2_KG_PER_KWH, KWH_J, Fuel
@@ -62,11 +63,37 @@ class AirLeakage:
 
 
 @dataclass(frozen=True, slots=True)
+class VariableBase:
+    """Variable-base heating degree-days (ASHRAE Handbook—Fundamentals 2017, ch. 19).
+
+    The balance point ``setpoint − gains / UA`` of each evaluated house picks the HDD from the
+    table of degree-days by base (a better-insulated house has a lower balance point and so
+    fewer heating degree-days).
+    """
+
+    setpoint_c: float
+    internal_gains_w: float
+    bases_c: tuple[float, ...]
+    hdd_k_day: tuple[float, ...]
+
+
+@dataclass(frozen=True, slots=True)
 class Climate:
     """Heating and cooling degree-days [K·day] at the house's balance bases."""
 
     hdd_k_day: float
     cdd_k_day: float = 0.0
+    variable_base: VariableBase | None = None
+
+    def heating_degree_days(self, ua_w_per_k: float) -> float:
+        """HDD [K·day] for a house of total UA [W/K]: fixed, or at its balance point."""
+        vb = self.variable_base
+        if vb is None or ua_w_per_k <= 0:
+            return self.hdd_k_day
+        balance_c = dd.balance_point_temperature_c(vb.setpoint_c, vb.internal_gains_w, ua_w_per_k)
+        # a balance point beyond the table takes the table's end value (stated in the docs)
+        balance_c = min(max(balance_c, vb.bases_c[0]), vb.bases_c[-1])
+        return dd.interpolate_degree_days(vb.bases_c, vb.hdd_k_day, balance_c)
 
 
 @dataclass(frozen=True, slots=True)
@@ -297,7 +324,7 @@ def evaluate(house: House) -> HouseEnergy:
         else energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3)
     )
     ua = envelope + infiltration
-    heating_load = energy.degree_day_load(ua, house.climate.hdd_k_day)
+    heating_load = energy.degree_day_load(ua, house.climate.heating_degree_days(ua))
     pipes = {
         run.id: energy.pipe_annual_loss(
             run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year

@@ -248,6 +248,7 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
         climate=model.Climate(
             to_si(doc.climate.hdd, "degree_days", units),
             to_si(doc.climate.cdd, "degree_days", units),
+            _variable_base(doc.climate.variable_base, units),
         ),
         heating=model.Heating(
             fuel_by_slug(heating.fuel), heating.efficiency, heating.price, heating.co2_per_unit
@@ -510,3 +511,18 @@ def _refuse_non_finite(value: object) -> None:
     if isinstance(value, list):
         for item in value:
             _refuse_non_finite(item)
+
+
+def _variable_base(vb, units: str):  # type: ignore[no-untyped-def]
+    """The request's variable-base table in SI (°C, W, K·day), or None."""
+    if vb is None:
+        return None
+    from server.physics.units import BTU_PER_HOUR_W, temp_to_c
+
+    gains_w = vb.internal_gains * (BTU_PER_HOUR_W if units == "ip" else 1.0)
+    return model.VariableBase(
+        setpoint_c=temp_to_c(vb.setpoint, units),  # type: ignore[arg-type]
+        internal_gains_w=gains_w,
+        bases_c=tuple(temp_to_c(row.base, units) for row in vb.table),  # type: ignore[arg-type]
+        hdd_k_day=tuple(to_si(row.hdd, "degree_days", units) for row in vb.table),  # type: ignore[arg-type]
+    )

@@ -35,7 +35,7 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
     body: dict[str, Any] = {
         "units": house.units,
         "name": house.label,
-        "climate": house.climate or DEFAULT_CLIMATE,
+        "climate": _climate(house.climate) or DEFAULT_CLIMATE,
         "heating": house.heating or DEFAULT_HEATING,
         "surfaces": surfaces,
         "upgrades": [{"id": u.slug, "name": u.name, **u.document} for u in house.upgrades],
@@ -51,6 +51,14 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
     except ValidationError as exc:
         first = exc.errors()[0]
         raise InputError(".".join(str(p) for p in first["loc"]), first["msg"]) from None
+
+
+CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base")
+
+
+def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
+    """The calculation's part of the stored climate (the weather file's details stay behind)."""
+    return {k: v for k, v in (stored or {}).items() if k in CLIMATE_KEYS and v is not None}
 
 
 def import_house(*, session: Session, organization_id: int, document: HouseDocument) -> House:

@@ -60,7 +60,10 @@ def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-unty
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=org.id)
     rows, total_ua = svc.surface_rows(house, catalog)
+    from server.web.routes.house_settings import settings_context
+
     return {
+        **settings_context(house),
         "house": house,
         "rows": rows,
         "total_ua": total_ua,

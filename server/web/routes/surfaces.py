@@ -37,7 +37,7 @@ def _moisture(house, surface, result, catalog):  # type: ignore[no-untyped-def]
         return None
     try:
         doc = AssemblyInput.model_validate(surface.assembly)
-        design = (house.climate or {}).get("heating_design_temperature")
+        design = ((house.climate or {}).get("weather") or {}).get("heating_design_temperature")
         check = check_assembly_moisture(doc, result, units=house.units, catalog=catalog,
                                         outdoor_design_temperature=design)  # fmt: skip
     except (ValueError, InputError):

@@ -1,0 +1,150 @@
+"""The House page's settings sections: climate, systems, air leakage, economics.
+
+Each section is a small form whose typed text is kept on error; the parsed values are checked by
+the same pydantic models the house calculation uses (server/documents/house.py), then stored on
+the house's JSON columns.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from pydantic import BaseModel, ValidationError
+
+from server.api.errors import field_path
+from server.documents.house import AirLeakageIn, ClimateIn, CoolingIn, EconomicsIn, HeatingIn
+from server.physics.fuels import FUELS
+
+
+@dataclass(frozen=True)
+class Field_:
+    key: str  # dotted path inside the section's document, e.g. "loan.apr"
+    label: str
+    unit_ip: str = ""
+    unit_si: str = ""
+    percent: bool = False  # shown and typed as %, stored as a fraction
+    integer: bool = False
+    optional: bool = False
+    choices: tuple[tuple[str, str], ...] = ()
+
+    def unit(self, units: str) -> str:
+        return "%" if self.percent else (self.unit_ip if units == "ip" else self.unit_si)
+
+
+FUEL_CHOICES = tuple((slug, f"{fuel.label} (per {fuel.unit})") for slug, fuel in FUELS.items())
+
+SECTIONS: dict[str, tuple[str, type[BaseModel], tuple[Field_, ...]]] = {
+    "climate": ("Climate", ClimateIn, (
+        Field_("hdd", "Heating degree-days", "°F·day", "K·day"),
+        Field_("cdd", "Cooling degree-days", "°F·day", "K·day", optional=True),
+        Field_("heating_base", "Heating base", "°F", "°C", optional=True),
+        Field_("cooling_base", "Cooling base", "°F", "°C", optional=True),
+    )),
+    "heating": ("Heating system", HeatingIn, (
+        Field_("fuel", "Fuel", choices=FUEL_CHOICES),
+        Field_("efficiency", "Seasonal efficiency (AFUE) or COP", "fraction or COP", "fraction or COP"),
+        Field_("price", "Price per fuel unit", "$", "per unit"),
+    )),
+    "cooling": ("Cooling", CoolingIn, (
+        Field_("seer", "SEER", "Btu/Wh", "Btu/Wh", optional=True),
+        Field_("cop", "or seasonal COP", "", "", optional=True),
+        Field_("electricity_price", "Electricity price", "$/kWh", "per kWh"),
+    )),
+    "air_leakage": ("Air leakage", AirLeakageIn, (
+        Field_("cfm50", "Blower door CFM50", "ft³/min", "ft³/min", optional=True),
+        Field_("n50", "or ACH50", "1/h", "1/h", optional=True),
+        Field_("n_factor", "N-factor", "", "", optional=True),
+        Field_("volume", "Conditioned volume", "ft³", "m³"),
+    )),
+    "economics": ("Money", EconomicsIn, (
+        Field_("discount_rate", "Discount rate", percent=True),
+        Field_("fuel_escalation", "Fuel price escalation", percent=True),
+        Field_("years", "Study period", "years", "years", integer=True),
+        Field_("loan.apr", "Loan APR", percent=True, optional=True),
+        Field_("loan.years", "Loan term", "years", "years", integer=True, optional=True),
+    )),
+}  # fmt: skip
+COLUMNS = {"climate": "climate", "heating": "heating", "cooling": "cooling",
+           "air_leakage": "air_leakage", "economics": "economics"}  # fmt: skip
+
+
+def _get(doc: dict[str, Any] | None, path: str) -> Any:
+    value: Any = doc or {}
+    for part in path.split("."):
+        value = value.get(part) if isinstance(value, dict) else None
+    return value
+
+
+def _set(doc: dict[str, Any], path: str, value: Any) -> None:
+    parts = path.split(".")
+    for part in parts[:-1]:
+        doc = doc.setdefault(part, {})
+    doc[parts[-1]] = value
+
+
+def form_values(section: str, stored: dict[str, Any] | None) -> dict[str, str]:
+    """Stored document -> text shown in the section's inputs."""
+    out: dict[str, str] = {}
+    for f in SECTIONS[section][2]:
+        value = _get(stored, f.key)
+        if value is None:
+            out[f.key] = ""
+        elif f.percent:
+            out[f.key] = f"{value * 100:.6g}"
+        elif isinstance(value, float):
+            out[f.key] = f"{value:.10g}"
+        else:
+            out[f.key] = str(value)
+    return out
+
+
+def parse_section(
+    section: str, data: dict[str, str], keep: dict[str, Any] | None = None
+) -> tuple[dict[str, Any] | None, dict[str, str]]:
+    """Posted text -> (validated document or None, {field key: message})."""
+    _, model, fields = SECTIONS[section]
+    doc: dict[str, Any] = {}
+    errors: dict[str, str] = {}
+    for f in fields:
+        text = (data.get(f.key) or "").replace(",", "").strip().rstrip("%").strip()
+        if not text:
+            if not f.optional:
+                errors[f.key] = "required"
+            continue
+        if f.choices:
+            if text not in dict(f.choices):
+                errors[f.key] = "choose one of the list"
+            else:
+                _set(doc, f.key, text)
+            continue
+        try:
+            number = float(text)
+        except ValueError:
+            errors[f.key] = f"'{data.get(f.key)}' is not a number"
+            continue
+        if f.percent:
+            number /= 100
+        if f.integer:
+            if number != int(number):
+                errors[f.key] = "must be a whole number"
+                continue
+            _set(doc, f.key, int(number))
+        else:
+            _set(doc, f.key, number)
+    if section == "economics" and "loan" in doc and len(doc["loan"]) == 1:
+        missing = "loan.years" if "apr" in doc["loan"] else "loan.apr"
+        errors[missing] = "give both the loan APR and its term, or neither"
+    if keep:  # parts of the document the form does not show (e.g. variable_base) survive a save
+        for key, value in keep.items():
+            doc.setdefault(key, value)
+    if errors:
+        return None, errors
+    try:
+        validated = model.model_validate(doc)
+    except ValidationError as exc:
+        for err in exc.errors():
+            key = field_path(err.get("loc", ())).replace("[", ".").replace("]", "") or "form"
+            errors[key] = str(err.get("msg", "")).removeprefix("Value error, ")
+        return None, errors
+    return validated.model_dump(exclude_none=True), errors

@@ -1,0 +1,163 @@
+"""House page sections: climate (typed or from a weather file), systems, air leakage, money."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from fastapi import APIRouter, Request, UploadFile
+from fastapi.responses import RedirectResponse
+
+from server.errors import InputError
+from server.physics.units import temp_from_c
+from server.services import houses as svc
+from server.services.climate import compute_degree_days
+from server.web.deps import OrgDep, SessionDep, render
+from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
+
+router = APIRouter()
+MAX_WEATHER_BYTES = 20 * 1024 * 1024
+CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base")
+
+
+def settings_context(
+    house, *, section: str = "", typed=None, errors=None, message: str = ""
+) -> dict:  # type: ignore[no-untyped-def]
+    """Context for templates/partials/house_settings.html."""
+    sections = []
+    for key, (title, _model, fields) in SECTIONS.items():
+        stored = getattr(house, COLUMNS[key]) or {}
+        values = typed if (key == section and typed is not None) else form_values(key, stored)
+        sections.append({"key": key, "title": title, "fields": fields, "values": values,
+                         "errors": (errors or {}) if key == section else {}})  # fmt: skip
+    weather = (house.climate or {}).get("weather")
+    vb = (house.climate or {}).get("variable_base") or {}
+    return {"house": house, "sections": sections, "weather": weather, "settings_message": message,
+            "settings_section": section, "balance": vb}  # fmt: skip
+
+
+def _respond(request: Request, house, ctx: dict, status: int):  # type: ignore[no-untyped-def]
+    if request.headers.get("HX-Request") == "true":
+        return render(request, "partials/house_settings.html", ctx)
+    if status == 200:
+        return RedirectResponse(f"/houses/{house.id}#settings", status_code=303)
+    from server.web.routes.houses import _house_context  # the full page, with the messages
+
+    full = _house_context(request.state.session, request.state.org, house.id)
+    full.update(ctx)
+    return render(request, "pages/house.html", full, status_code=status)
+
+
+@router.post("/houses/{house_id}/settings/{section}")
+async def save_section(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, section: str
+):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    request.state.session, request.state.org = session, org
+    if section not in SECTIONS:
+        raise svc.NotFound
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    version = int(data["version"]) if data.get("version", "").isdigit() else None
+    stored = getattr(house, COLUMNS[section]) or {}
+    keep: dict[str, Any] = {}
+    doc, errors = parse_section(section, data, keep)
+    if doc is not None and section == "climate":
+        doc, errors = _with_balance_point(house, doc, data, errors)
+    if doc is not None:
+        try:
+            svc.check_version(house, version)
+        except svc.Conflict:
+            errors = {"form": "Someone else saved this house after you opened it: nothing was "
+                              "saved. Your entries are kept; reload to see theirs."}  # fmt: skip
+            doc = None
+    if doc is None:
+        ctx = settings_context(house, section=section, typed=data, errors=errors,
+                               message="Not saved: check the marked fields.")  # fmt: skip
+        return _respond(request, house, ctx, 409 if "form" in errors else 422)
+    if section == "climate":
+        doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
+    setattr(house, COLUMNS[section], doc)
+    svc.touch(house)
+    session.flush()
+    ctx = settings_context(house, section=section, message=f"{SECTIONS[section][0]} saved.")
+    return _respond(request, house, ctx, 200)
+
+
+def _with_balance_point(house, doc: dict, data: dict[str, str], errors: dict[str, str]):  # type: ignore[no-untyped-def]
+    """Add variable_base when set-point and gains are typed and a weather table exists."""
+    setpoint, gains = data.get("setpoint", "").strip(), data.get("internal_gains", "").strip()
+    if not setpoint and not gains:
+        return doc, errors
+    table = ((house.climate or {}).get("weather") or {}).get("degree_days_by_base")
+    if not table:
+        return None, {
+            "setpoint": "load a weather file first: the balance-point method needs its table"
+        }
+    try:
+        doc["variable_base"] = {"setpoint": float(setpoint), "internal_gains": float(gains),
+                                "table": [{"base": r["base"], "hdd": r["hdd"]} for r in table]}  # fmt: skip
+    except ValueError:
+        return None, {"setpoint": "give the set-point and the internal gains as numbers"}
+    from server.documents.house import ClimateIn
+
+    try:
+        return ClimateIn.model_validate(doc).model_dump(exclude_none=True), errors
+    except Exception as exc:  # pydantic ValidationError: plain message beside the field
+        return None, {"setpoint": str(exc).splitlines()[-1][:200]}
+
+
+@router.post("/houses/{house_id}/weather")
+async def upload_weather(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, file: UploadFile
+):  # type: ignore[no-untyped-def]
+    """Read a weather file (EPW, TMY3 or CSV) into the house's climate."""
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    request.state.session, request.state.org = session, org
+    form = await request.form()
+    version = str(form.get("version", ""))
+    data = await file.read(MAX_WEATHER_BYTES + 1)
+    try:
+        if len(data) > MAX_WEATHER_BYTES:
+            raise InputError(
+                "file", "the file is larger than 20 MB; a year of hourly data is about 2 MB"
+            )
+        svc.check_version(house, int(version) if version.isdigit() else None)
+        result = compute_degree_days(data, units=house.units, heating_base=None, cooling_base=None)
+    except InputError as exc:
+        ctx = settings_context(house, section="climate", errors={"file": exc.message},
+                               message="The weather file was not used.")  # fmt: skip
+        return _respond(request, house, ctx, 422)
+    except svc.Conflict:
+        ctx = settings_context(
+            house,
+            section="climate",
+            errors={"form": "Someone else saved this house; reload first."},
+        )
+        return _respond(request, house, ctx, 409)
+    climate = {
+        "hdd": round(result.hdd, 1),
+        "cdd": round(result.cdd, 1),
+        "heating_base": result.heating_base,
+        "cooling_base": result.cooling_base,
+        "weather": {
+            "file": (file.filename or "")[:200],
+            "kind": result.kind,
+            "station": result.station,
+            "days": result.days,
+            "heating_design_temperature": result.heating_design_temperature,
+            "cooling_design_temperature": result.cooling_design_temperature,
+            "climate_zone": result.climate_zone,
+            "climate_zone_name": result.climate_zone_name,
+            "warnings": result.warnings[:10],
+            "degree_days_by_base": [row.model_dump() for row in result.degree_days_by_base],
+        },
+    }
+    house.climate = climate
+    svc.touch(house)
+    session.flush()
+    name = result.station or file.filename or "the file"
+    ctx = settings_context(house, section="climate", message=f"Climate read from {name}: "
+                           f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
+    return _respond(request, house, ctx, 200)
+
+
+__all__ = ["router", "temp_from_c", "CLIMATE_KEYS"]

@@ -1,0 +1,103 @@
+"""House page sections: climate typed or from a weather file, systems, air leakage, money."""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+import pvlib
+from fastapi.testclient import TestClient
+
+HX = {"HX-Request": "true"}
+TMY3 = Path(pvlib.__file__).parent / "data" / "723170TYA.CSV"  # pvlib's bundled TMY3 file
+
+
+def _house(client: TestClient) -> str:
+    return client.post("/houses", data={"label": "Settings house"}, follow_redirects=False).headers[
+        "location"
+    ]
+
+
+def _version(client: TestClient, url: str) -> str:
+    return re.search(r'name="version" value="(\d+)"', client.get(url).text).group(1)  # type: ignore[union-attr]
+
+
+def test_typed_climate_and_systems_are_saved(client: TestClient) -> None:
+    house = _house(client)
+    r = client.post(
+        f"{house}/settings/climate",
+        data={"hdd": "5,400", "cdd": "900", "version": _version(client, house)},
+        headers=HX,
+    )
+    assert "Climate saved." in r.text
+    r = client.post(
+        f"{house}/settings/heating",
+        data={"fuel": "natural_gas", "efficiency": "0.8", "price": "1.45"},
+        headers=HX,
+    )
+    assert "Heating system saved." in r.text
+    doc = None
+    page = client.get(house).text
+    assert 'value="5400"' in page and 'value="0.8"' in page
+    # the saved settings feed the house document
+    house_id = house.rsplit("/", 1)[1]
+    client.post(f"{house}/surfaces", data={"typical": "wall-2x4-16-r13", "area": "1000"})
+    doc = client.get(f"/api/v1/houses/{house_id}/document").json()
+    assert doc["climate"]["hdd"] == 5400.0 and doc["climate"]["cdd"] == 900.0
+    assert doc["heating"]["fuel"] == "natural_gas" and doc["heating"]["price"] == 1.45
+
+
+def test_bad_settings_keep_typed_text(client: TestClient) -> None:
+    house = _house(client)
+    r = client.post(f"{house}/settings/economics",
+                    data={"discount_rate": "three", "fuel_escalation": "2", "years": "20.5", "loan.apr": "6"}, headers=HX)  # fmt: skip
+    assert 'value="three"' in r.text and "is not a number" in r.text
+    assert "must be a whole number" in r.text and "give both the loan APR and its term" in r.text
+    r = client.post(
+        f"{house}/settings/heating", data={"fuel": "coal", "efficiency": "0.8", "price": "1"}
+    )
+    assert r.status_code == 422 and "choose one of the list" in r.text
+
+
+def test_stale_settings_form_is_a_conflict(client: TestClient) -> None:
+    house = _house(client)
+    old = _version(client, house)
+    client.post(f"{house}/settings/climate", data={"hdd": "5000", "version": old}, headers=HX)
+    r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "version": old}, headers=HX)
+    assert "Someone else saved this house" in r.text and 'value="6000"' in r.text
+
+
+def test_weather_file_sets_climate_and_balance_point(client: TestClient) -> None:
+    house = _house(client)
+    r = client.post(f"{house}/weather", data={"version": _version(client, house)},
+                    files={"file": ("723170TYA.CSV", TMY3.read_bytes())}, headers=HX)  # fmt: skip
+    # Greensboro TMY3 (pvlib): HDD65 ≈ 3,876 °F·day (tests/reference/test_weather_pvlib.py
+    # checks it against an independent pandas computation), thermal zone 4
+    assert "HDD 3,876" in r.text and "zone 4" in r.text
+    r = client.post(
+        f"{house}/settings/climate",
+        data={"hdd": "3876", "cdd": "1306", "setpoint": "70", "internal_gains": "3000"},
+        headers=HX,
+    )
+    assert "Climate saved." in r.text
+    house_id = house.rsplit("/", 1)[1]
+    client.post(f"{house}/surfaces", data={"typical": "wall-2x4-16-r13", "area": "1000"})
+    client.post(
+        f"{house}/settings/heating",
+        data={"fuel": "natural_gas", "efficiency": "0.8", "price": "1.45"},
+    )
+    doc = client.get(f"/api/v1/houses/{house_id}/document").json()
+    vb = doc["climate"]["variable_base"]
+    assert vb["setpoint"] == 70 and vb["internal_gains"] == 3000 and len(vb["table"]) > 10
+    result = client.post("/api/v1/calc/house", json=doc).json()
+    # UA = 1000 / 11.83 = 84.5 Btu/(h·°F); balance = 70 − 3000/84.5 = 34.5 °F → far fewer HDD
+    # than at 65 °F, so the load is below UA × 3876 × 24
+    assert result["as_found"]["heating_load"] < 84.5 * 3876 * 24 * 0.5
+
+
+def test_not_a_weather_file_is_refused(client: TestClient) -> None:
+    house = _house(client)
+    r = client.post(
+        f"{house}/weather", files={"file": ("notes.txt", b"just some notes\nnothing here\n")}
+    )
+    assert r.status_code == 422 and "The weather file was not used." in r.text
