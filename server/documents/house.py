@@ -309,7 +309,7 @@ class HouseDocument(Strict):
     cooling: CoolingIn | None = None
     air_leakage: AirLeakageIn | None = None
     surfaces: list[SurfaceIn] = Field(min_length=1, max_length=200)
-    upgrades: list[UpgradeIn] = Field(default_factory=list, max_length=100)
+    upgrades: list[UpgradeIn] = Field(default_factory=list, max_length=300)
     packages: list[PackageIn] = Field(default_factory=list, max_length=50)
     economics: EconomicsIn = Field(default_factory=EconomicsIn)
     electricity_co2_per_kwh: Price | None = Field(

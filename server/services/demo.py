@@ -58,10 +58,11 @@ def load_demo_house(*, session: Session) -> int:
             session=session, house=house, name=name, kind="", area=area, typical=typical
         )
         surfaces[typical] = surface
+    by_slug = {s.slug: s.id for s in surfaces.values()}
     for i, (slug, name, document) in enumerate(_demo_upgrades(surfaces)):
-        session.add(
-            Upgrade(house=house, position=i, slug=slug, name=name, kind="", document=document)
-        )
+        upgrade = Upgrade(house=house, position=i, slug=slug, name=name, kind="", document=document)
+        upgrade.surface_id = by_slug.get(document.get("surface", ""))
+        session.add(upgrade)
     session.add(Package(house=house, position=0, slug="attic-and-air", name="Attic + air sealing",
                         upgrade_slugs=["attic-r49", "air-seal"]))  # fmt: skip
     session.add(Package(house=house, position=1, slug="whole-house", name="Whole envelope",
@@ -128,3 +129,36 @@ def _demo_upgrades(surfaces):  # type: ignore[no-untyped-def]
             },
         ),
     ]
+
+
+#: (e-mail, password, firm, role): development sign-ins made by ``warmstead demo``. Known
+#: passwords: deactivate these accounts (Users page) on any server that real firms use.
+DEMO_PASSWORD = "warmstead-demo"
+OTHER_FIRM = "Other firm"
+DEMO_ACCOUNTS = (
+    ("auditor@demo.invalid", DEMO_PASSWORD, "demo firm", "admin"),
+    ("other@demo.invalid", DEMO_PASSWORD, OTHER_FIRM, "admin"),
+)
+
+
+def load_demo_accounts(*, session: Session) -> list[tuple[str, str, str, str]]:
+    """Create (once) the demo firm's admin and a second firm with its own user.
+
+    The demo firm is the one that holds the demo house; "Other firm" exists so a person can
+    sign in as someone else and check by hand that the demo firm's data stays invisible.
+    Existing accounts are left as they are. Returns :data:`DEMO_ACCOUNTS`.
+    """
+    from server.models import Organization, User
+    from server.services.accounts import create_user
+
+    demo_firm = default_organization(session=session)
+    other = session.scalars(select(Organization).where(Organization.name == OTHER_FIRM)).first()
+    if other is None:
+        other = Organization(name=OTHER_FIRM)
+        session.add(other)
+        session.flush()
+    for (email, password, _firm, role), org in zip(DEMO_ACCOUNTS, (demo_firm, other), strict=True):
+        if session.scalars(select(User.id).where(User.email == email)).first() is None:
+            create_user(session=session, organization_id=org.id, email=email, password=password,
+                        role=role, name="Demo auditor" if org is demo_firm else "Other firm's auditor")  # fmt: skip
+    return list(DEMO_ACCOUNTS)

@@ -11,6 +11,7 @@ from server.documents.house import HouseDocument
 from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
 from server.services.houses import create_house
+from server.services.price_book import items_for_house, priced_document
 
 #: defaults for a house whose systems are not entered yet (common practice, shown as assumptions)
 DEFAULT_CLIMATE = {"hdd": 5000.0, "cdd": 800.0}
@@ -32,13 +33,23 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
     chosen = [x for x in (extra_package or []) if x in known]
     if chosen:
         packages.append({"id": "your-selection", "name": "Your selection", "upgrades": chosen})
+    prices = items_for_house(house)  # the firm's price book, when an upgrade links an item
     body: dict[str, Any] = {
         "units": house.units,
         "name": house.label,
         "climate": _climate(house.climate) or DEFAULT_CLIMATE,
         "heating": house.heating or DEFAULT_HEATING,
         "surfaces": surfaces,
-        "upgrades": [{"id": u.slug, "name": u.name, **u.document} for u in house.upgrades],
+        "upgrades": [
+            {
+                "id": u.slug,
+                "name": u.name,
+                **priced_document(
+                    u.document, prices, units=house.units, field=f"upgrades[{i}].price_item"
+                ),
+            }
+            for i, u in enumerate(house.upgrades)
+        ],  # fmt: skip
         "packages": packages,
         "economics": house.economics or {},
     }
@@ -85,18 +96,15 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
                 area=s.area or 0.0, assembly=s.assembly.model_dump(exclude_none=True),
             )
         )  # fmt: skip
+    session.flush()
+    by_slug = {s.slug: s.id for s in house.surfaces}
     for i, u in enumerate(document.upgrades):
         doc = u.model_dump(exclude_none=True, exclude={"id", "name"})
-        session.add(
-            Upgrade(
-                house=house,
-                position=i,
-                slug=u.id,
-                name=u.name or u.id,
-                kind=u.kind or "",
-                document=doc,
-            )
+        upgrade = Upgrade(
+            house=house, position=i, slug=u.id, name=u.name or u.id, kind=u.kind or "", document=doc
         )
+        upgrade.surface_id = by_slug.get(u.surface or "")
+        session.add(upgrade)
     for i, p in enumerate(document.packages):
         session.add(
             Package(

@@ -14,21 +14,17 @@ from server.services.library import catalog_for, list_materials
 from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
+from server.web.editor import run_editor
 from server.web.forms import parse_float
 from server.web.layer_form import (
     CAVITY_TYPES,
     LAYER_TYPES,
     AssemblyForm,
-    LayerForm,
-    attach_error,
-    document_from_form,
     form_from_document,
-    form_from_post,
 )
 from server.web.svg_condensation import condensation_svg
 
 router = APIRouter()
-MAX_LAYERS = 40
 
 
 def _moisture(house, surface, result, catalog):  # type: ignore[no-untyped-def]
@@ -52,6 +48,8 @@ def _context(session, org, house, surface, form: AssemblyForm, result, message: 
         "cautions": cautions_for([surface.kind]),
         "house": house,
         "surface": surface,
+        "editor_url": f"/houses/{house.id}/surfaces/{surface.id}/assembly",
+        "upgrades": [u for u in house.upgrades if u.surface_id == surface.id],
         "form": form,
         "result": result,
         "message": message,
@@ -90,75 +88,19 @@ def surface_page(
     )
 
 
-def _apply_action(form: AssemblyForm, action: str) -> str:
-    """Add / remove / move a layer in the form. Returns a short message for the screen reader."""
-    verb, _, index_text = action.partition(":")
-    try:
-        index = int(index_text) if index_text else -1
-    except ValueError:
-        return ""
-    layers = form.layers
-    if verb == "add" and len(layers) < MAX_LAYERS:
-        layers.append(LayerForm({"type": "r", "name": "", "r": ""}))
-        return "Layer added at the inside face; fill in its R."
-    if verb == "remove" and 0 <= index < len(layers):
-        removed = layers.pop(index)
-        return f"Removed {removed.get('name') or f'layer {index + 1}'}."
-    if verb == "up" and 0 < index < len(layers):
-        layers[index - 1], layers[index] = layers[index], layers[index - 1]
-        return f"Moved layer {index + 1} out one place."
-    if verb == "down" and 0 <= index < len(layers) - 1:
-        layers[index + 1], layers[index] = layers[index], layers[index + 1]
-        return f"Moved layer {index + 1} in one place."
-    return ""
-
-
 @router.post("/houses/{house_id}/surfaces/{surface_id}/assembly")
 async def save_assembly(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
     data = {k: str(v) for k, v in (await request.form()).items()}
-    try:
-        count = min(int(data.get("layer_count", "0")), MAX_LAYERS)
-        version = int(data["version"]) if data.get("version") else None
-    except ValueError:
-        count, version = 0, None
-    form = form_from_post(data, count)
-    action = data.get("action", "")
-    if action.startswith("typical:") and action[8:] in typical_assemblies():
-        typical = typical_assemblies()[action[8:]]
-        form = form_from_document(
-            typical.assembly(house.units).model_dump(exclude_none=True), house.units
-        )
-        message = f"Replaced the layers with: {typical.label}."
-    else:
-        message = _apply_action(form, action)
     catalog = catalog_for(session=session, organization_id=org.id)
-    result = None
-    status = 200
-    doc = document_from_form(form, house.units)
-    if doc is not None:
-        try:
-            result = svc.save_assembly(
-                session=session, house=house, surface=surface, assembly=doc, catalog=catalog,
-                expected_version=version,
-            )  # fmt: skip
-            message = message or "Saved."
-        except InputError as exc:
-            for err in exc.errors():
-                attach_error(form, err.field, err.message)
-            status = 422
-        except svc.Conflict:
-            form.errors["version"] = (
-                "Someone else saved this house after you opened it, so nothing was saved. "
-                "Your entries are kept here: reload to see theirs, then enter yours again."
-            )
-            status = 409
-    else:
-        status = 422
-    if status != 200:
-        message = "Not saved: check the fields marked below."
+
+    def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
+        return svc.save_assembly(session=session, house=house, surface=surface, assembly=doc,
+                                 catalog=catalog, expected_version=version)  # fmt: skip
+
+    form, result, message, status = run_editor(data, units=house.units, save=save)
     if not request.headers.get("HX-Request") and status == 200:
         return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
     template = (
@@ -166,12 +108,8 @@ async def save_assembly(
     )
     # htmx swaps 200 responses only by default: return 200 with the messages in the fragment.
     code = 200 if request.headers.get("HX-Request") else status
-    return render(
-        request,
-        template,
-        _context(session, org, house, surface, form, result, message),
-        status_code=code,
-    )
+    ctx = _context(session, org, house, surface, form, result, message)
+    return render(request, template, ctx, status_code=code)
 
 
 @router.post("/houses/{house_id}/surfaces/{surface_id}")

@@ -1,0 +1,182 @@
+"""Candidate upgrades and packages of a saved house (organization-scoped through the house)."""
+
+from __future__ import annotations
+
+import copy
+import re
+from typing import Any
+
+from pydantic import ValidationError
+from sqlalchemy.orm import Session
+
+from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.house import CostIn
+from server.errors import InputError
+from server.models import House, Package, Surface, Upgrade
+from server.services.assembly import evaluate_assembly
+from server.services.catalog import Catalog
+from server.services.houses import NotFound, check_version, touch
+from server.services.typical import typical_assemblies
+
+
+def _slug(text: str, taken: set[str]) -> str:
+    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or "upgrade"
+    slug, n = base, 2
+    while slug in taken:
+        slug, n = f"{base}-{n}", n + 1
+    return slug
+
+
+def get_upgrade(house: House, upgrade_id: int) -> Upgrade:
+    for upgrade in house.upgrades:
+        if upgrade.id == upgrade_id:
+            return upgrade
+    raise NotFound
+
+
+def _costs(
+    fixed: float, per_area: float, rebate: float, life_years: float | None
+) -> dict[str, Any]:
+    try:
+        cost = CostIn.model_validate({"fixed": fixed, "per_area": per_area}).model_dump()
+    except ValidationError as exc:
+        err = exc.errors()[0]
+        raise InputError(
+            f"cost_{err['loc'][0]}", "must be zero or more and below a billion"
+        ) from None
+    if not (0 <= rebate < 1e9):
+        raise InputError("rebate", "must be zero or more")
+    if life_years is not None and not (0 < life_years <= 100):
+        raise InputError("life_years", "must be between 0 and 100 years")
+    out: dict[str, Any] = {"cost": cost, "rebate": rebate}
+    if life_years is not None:
+        out["life_years"] = life_years
+    return out
+
+
+def add_assembly_upgrade(
+    *, session: Session, house: House, surface: Surface, name: str, start: str,
+    expected_version: int | None,
+) -> Upgrade:  # fmt: skip
+    """A new assembly for ``surface``, starting from the as-found layers or a typical assembly."""
+    check_version(house, expected_version)
+    if start.startswith("typical:"):
+        typical = typical_assemblies().get(start[8:])
+        if typical is None:
+            raise InputError("start", "there is no such typical assembly")
+        assembly = typical.assembly(house.units).model_dump(exclude_none=True)  # type: ignore[arg-type]
+        name = name.strip() or typical.label
+    else:
+        assembly = copy.deepcopy(surface.assembly)
+    name = name.strip() or f"{surface.name}: upgrade"
+    upgrade = Upgrade(
+        house=house, surface_id=surface.id, position=len(house.upgrades),
+        slug=_slug(name, {u.slug for u in house.upgrades}), name=name[:200], kind="assembly",
+        document={"surface": surface.slug, "assembly": assembly, "cost": {"fixed": 0.0, "per_area": 0.0},
+                  "rebate": 0.0, "life_years": 30.0},
+    )  # fmt: skip
+    session.add(upgrade)
+    touch(house)
+    session.flush()
+    return upgrade
+
+
+def add_air_sealing(
+    *, session: Session, house: House, name: str, cfm50_after: float, fixed: float, rebate: float,
+    life_years: float | None, expected_version: int | None,
+) -> Upgrade:  # fmt: skip
+    check_version(house, expected_version)
+    found = (house.air_leakage or {}).get("cfm50")
+    if not found:
+        raise InputError("cfm50_after", "enter the blower-door CFM50 in Air leakage first")
+    if not (0 < cfm50_after < found):
+        raise InputError("cfm50_after", f"the target must be below the as-found {found:,.0f} CFM50")
+    name = name.strip() or f"Air sealing to {cfm50_after:,.0f} CFM50"
+    doc = {"cfm50_after": cfm50_after, **_costs(fixed, 0.0, rebate, life_years)}
+    upgrade = Upgrade(house=house, position=len(house.upgrades), slug=_slug(name, {u.slug for u in house.upgrades}),
+                      name=name[:200], kind="air_sealing", document=doc)  # fmt: skip
+    session.add(upgrade)
+    touch(house)
+    session.flush()
+    return upgrade
+
+
+def update_upgrade(
+    *, session: Session, house: House, upgrade: Upgrade, name: str, fixed: float, per_area: float,
+    rebate: float, life_years: float | None, expected_version: int | None,
+) -> None:  # fmt: skip
+    check_version(house, expected_version)
+    doc = dict(upgrade.document)
+    doc.update(_costs(fixed, per_area if "assembly" in doc else 0.0, rebate, life_years))
+    upgrade.document = doc
+    upgrade.name = (name.strip() or upgrade.name)[:200]
+    touch(house)
+    session.flush()
+
+
+def save_upgrade_assembly(
+    *, session: Session, house: House, upgrade: Upgrade, assembly: dict[str, Any], catalog: Catalog,
+    expected_version: int | None,
+) -> AssemblyResult:  # fmt: skip
+    check_version(house, expected_version)
+    doc = AssemblyInput.model_validate(assembly)
+    result = evaluate_assembly(doc, units=house.units, catalog=catalog, field="assembly")  # type: ignore[arg-type]
+    upgrade.document = {**upgrade.document, "assembly": doc.model_dump(exclude_none=True)}
+    touch(house)
+    session.flush()
+    return result
+
+
+def delete_upgrade(
+    *, session: Session, house: House, upgrade: Upgrade, expected_version: int | None
+) -> None:
+    check_version(house, expected_version)
+    for package in house.packages:
+        if upgrade.slug in package.upgrade_slugs:
+            package.upgrade_slugs = [s for s in package.upgrade_slugs if s != upgrade.slug]
+    house.upgrades.remove(upgrade)
+    touch(house)
+    session.flush()
+
+
+def add_package(
+    *,
+    session: Session,
+    house: House,
+    name: str,
+    upgrade_slugs: list[str],
+    expected_version: int | None,
+) -> Package:
+    check_version(house, expected_version)
+    known = {u.slug: u for u in house.upgrades}
+    chosen = [s for s in dict.fromkeys(upgrade_slugs) if s in known]
+    if not chosen:
+        raise InputError("upgrades", "tick at least one upgrade for the package")
+    targets = [
+        known[s].document.get("surface") or ("air" if known[s].document.get("cfm50_after") else s)
+        for s in chosen
+    ]
+    if len(set(targets)) != len(targets):
+        raise InputError(
+            "upgrades", "a package can hold only one upgrade per surface (and one air sealing)"
+        )
+    name = name.strip() or " + ".join(known[s].name for s in chosen)[:200]
+    package = Package(house=house, position=len(house.packages), slug=_slug(name, {p.slug for p in house.packages}),
+                      name=name[:200], upgrade_slugs=chosen)  # fmt: skip
+    session.add(package)
+    touch(house)
+    session.flush()
+    return package
+
+
+def delete_package(
+    *, session: Session, house: House, package_id: int, expected_version: int | None
+) -> None:
+    check_version(house, expected_version)
+    for package in house.packages:
+        if package.id == package_id:
+            house.packages.remove(package)
+            touch(house)
+            session.flush()
+            return
+    raise NotFound

@@ -1,0 +1,196 @@
+"""Upgrades (a new assembly for a surface, air sealing) and packages of a saved house."""
+
+from __future__ import annotations
+
+from fastapi import APIRouter, Request
+from fastapi.responses import RedirectResponse
+
+from server.documents.assembly import AssemblyInput
+from server.errors import InputError
+from server.services import houses as svc
+from server.services import upgrades as upg
+from server.services.assembly import evaluate_assembly
+from server.services.cautions import cautions_for
+from server.services.library import catalog_for, list_materials
+from server.services.typical import typical_assemblies
+from server.web.deps import OrgDep, SessionDep, render
+from server.web.editor import run_editor
+from server.web.forms import parse_float
+from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
+
+router = APIRouter()
+
+
+def _version(data: dict[str, str]) -> int | None:
+    return int(data["version"]) if data.get("version", "").isdigit() else None
+
+
+def _number(
+    data: dict[str, str], key: str, errors: dict[str, str], *, optional: bool = True
+) -> float | None:
+    text = data.get(key, "").strip()
+    if not text:
+        if not optional:
+            errors[key] = "required"
+        return None if optional else 0.0
+    return parse_float(text, key, errors, positive=False)
+
+
+def _upgrade_context(session, org, house, upgrade, form=None, result=None, message="", errors=None):  # type: ignore[no-untyped-def]
+    catalog = catalog_for(session=session, organization_id=org.id)
+    surface = next((s for s in house.surfaces if s.id == upgrade.surface_id), None)
+    before = None
+    if surface is not None:
+        try:
+            before = evaluate_assembly(
+                AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
+            )
+        except (InputError, ValueError):
+            before = None
+    if upgrade.document.get("assembly") is not None:
+        if form is None:
+            form = form_from_document(upgrade.document["assembly"], house.units)
+        if result is None and not form.has_errors:
+            try:
+                result = evaluate_assembly(AssemblyInput.model_validate(upgrade.document["assembly"]),
+                                           units=house.units, catalog=catalog)  # fmt: skip
+            except (InputError, ValueError):
+                result = None
+    kinds = [surface.kind] if surface else []
+    topics = ("air_sealing",) if upgrade.document.get("cfm50_after") else ()
+    return {
+        "house": house, "upgrade": upgrade, "surface": surface, "before": before, "form": form,
+        "result": result, "message": message, "errors": errors or {}, "units": house.units,
+        "editor_url": f"/houses/{house.id}/upgrades/{upgrade.id}/assembly",
+        "layer_types": LAYER_TYPES, "cavity_types": CAVITY_TYPES,
+        "materials": list_materials(session=session, organization_id=org.id),
+        "typicals": typical_assemblies(), "moisture": None,
+        "cautions": cautions_for(kinds, extra_topics=topics),
+    }  # fmt: skip
+
+
+@router.post("/houses/{house_id}/upgrades")
+async def add_upgrade(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    errors: dict[str, str] = {}
+    try:
+        if data.get("kind") == "air_sealing":
+            target = _number(data, "cfm50_after", errors, optional=False)
+            fixed = _number(data, "cost_fixed", errors) or 0.0
+            rebate = _number(data, "rebate", errors) or 0.0
+            life = _number(data, "life_years", errors)
+            if not errors:
+                upg.add_air_sealing(session=session, house=house, name=data.get("name", ""), cfm50_after=target or 0.0,
+                                    fixed=fixed, rebate=rebate, life_years=life, expected_version=_version(data))  # fmt: skip
+                return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
+        else:
+            surface_id = int(data.get("surface_id", "0") or 0)
+            surface = svc.get_surface(
+                session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
+            )
+            upgrade = upg.add_assembly_upgrade(session=session, house=house, surface=surface, name=data.get("name", ""),
+                                               start=data.get("start", "as_found"), expected_version=_version(data))  # fmt: skip
+            return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
+    except InputError as exc:
+        errors[exc.field] = exc.message
+    except svc.Conflict:
+        errors["form"] = (
+            "Someone else saved this house after you opened it; nothing was saved. Reload and try again."
+        )
+    from server.web.routes.houses import _house_context
+
+    ctx = _house_context(session, org, house.id)
+    ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
+    return render(request, "pages/house.html", ctx, status_code=409 if "form" in errors else 422)
+
+
+@router.get("/houses/{house_id}/upgrades/{upgrade_id}", name="upgrade")
+def upgrade_page(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
+):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    upgrade = upg.get_upgrade(house, upgrade_id)
+    return render(request, "pages/upgrade.html", _upgrade_context(session, org, house, upgrade))
+
+
+@router.post("/houses/{house_id}/upgrades/{upgrade_id}")
+async def update_upgrade(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
+):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    upgrade = upg.get_upgrade(house, upgrade_id)
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    errors: dict[str, str] = {}
+    try:
+        if data.get("action") == "delete":
+            upg.delete_upgrade(
+                session=session, house=house, upgrade=upgrade, expected_version=_version(data)
+            )
+            return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
+        fixed = _number(data, "cost_fixed", errors) or 0.0
+        per_area = _number(data, "cost_per_area", errors) or 0.0
+        rebate = _number(data, "rebate", errors) or 0.0
+        life = _number(data, "life_years", errors)
+        if not errors:
+            upg.update_upgrade(session=session, house=house, upgrade=upgrade, name=data.get("name", ""), fixed=fixed,
+                               per_area=per_area, rebate=rebate, life_years=life, expected_version=_version(data))  # fmt: skip
+            return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
+    except InputError as exc:
+        errors[exc.field] = exc.message
+    except svc.Conflict:
+        errors["form"] = (
+            "Someone else saved this house after you opened it; nothing was saved. Your entries are kept."
+        )
+    ctx = _upgrade_context(session, org, house, upgrade, errors=errors)
+    ctx["detail_form"] = data
+    return render(request, "pages/upgrade.html", ctx, status_code=409 if "form" in errors else 422)
+
+
+@router.post("/houses/{house_id}/upgrades/{upgrade_id}/assembly")
+async def save_upgrade_assembly(
+    request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
+):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    upgrade = upg.get_upgrade(house, upgrade_id)
+    if upgrade.document.get("assembly") is None:
+        raise svc.NotFound
+    data = {k: str(v) for k, v in (await request.form()).items()}
+    catalog = catalog_for(session=session, organization_id=org.id)
+
+    def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
+        return upg.save_upgrade_assembly(session=session, house=house, upgrade=upgrade, assembly=doc,
+                                         catalog=catalog, expected_version=version)  # fmt: skip
+
+    form, result, message, status = run_editor(data, units=house.units, save=save)
+    htmx = request.headers.get("HX-Request") == "true"
+    if not htmx and status == 200:
+        return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
+    ctx = _upgrade_context(session, org, house, upgrade, form=form, result=result, message=message)
+    template = "partials/layer_editor.html" if htmx else "pages/upgrade.html"
+    return render(request, template, ctx, status_code=200 if htmx else status)
+
+
+@router.post("/houses/{house_id}/packages")
+async def add_package(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    form = await request.form()
+    data = {k: str(v) for k, v in form.items()}
+    errors: dict[str, str] = {}
+    try:
+        if data.get("action", "").startswith("delete:"):
+            upg.delete_package(session=session, house=house, package_id=int(data["action"][7:] or 0),
+                               expected_version=_version(data))  # fmt: skip
+        else:
+            upg.add_package(session=session, house=house, name=data.get("name", ""),
+                            upgrade_slugs=[str(v) for v in form.getlist("upgrades")], expected_version=_version(data))  # fmt: skip
+        return RedirectResponse(f"/houses/{house.id}#packages", status_code=303)
+    except (InputError, ValueError) as exc:
+        errors["package"] = exc.message if isinstance(exc, InputError) else "unknown package"
+    except svc.Conflict:
+        errors["package"] = "Someone else saved this house after you opened it; nothing was saved."
+    from server.web.routes.houses import _house_context
+
+    ctx = _house_context(session, org, house.id)
+    ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
+    return render(request, "pages/house.html", ctx, status_code=422)
