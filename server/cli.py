@@ -28,13 +28,14 @@ def migrate(database_url: str | None = None) -> None:
 
 
 def demo(database_url: str | None = None) -> int:
-    """Load the demo house (idempotent). Returns its id."""
+    """Load the demo house and the demo sign-ins (idempotent). Returns the house's id."""
     from server.db import make_engine, make_session_factory, session_scope
-    from server.services.demo import load_demo_house
+    from server.services.demo import load_demo_accounts, load_demo_house
 
     engine = make_engine(database_url or get_settings().database_url)
     with session_scope(make_session_factory(engine)) as session:
         house_id = load_demo_house(session=session)
+        load_demo_accounts(session=session)
     engine.dispose()
     return house_id
 
@@ -71,7 +72,12 @@ def main(argv: list[str] | None = None) -> int:
         print(f"database ready ({time.perf_counter() - started:.2f} s)")
     elif args.command == "demo":
         house_id = demo()
+        from server.services.demo import DEMO_ACCOUNTS
+
         print(f"demo house loaded: /houses/{house_id}")
+        print("demo sign-ins (development only; deactivate them on a real server):")
+        for email, password, firm, role in DEMO_ACCOUNTS:
+            print(f"  {email} / {password}  ({role}, {firm})")
     elif args.command == "serve":
         serve(args.host, args.port, args.workers)
     return 0

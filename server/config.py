@@ -24,6 +24,8 @@ class Settings(BaseSettings):
     port: int = 8000
     workers: int = 1
     sql_echo: bool = False
+    #: mark cookies Secure even when the request looks like http (TLS ended at a proxy)
+    cookie_secure: bool = False
 
     @model_validator(mode="after")
     def _refuse_default_secret(self) -> Settings:

@@ -26,10 +26,28 @@ class ErrorBody(BaseModel):
 
 
 ERROR_RESPONSES: dict[int | str, dict[str, Any]] = {
+    400: {
+        "model": ErrorBody,
+        "description": "The body could not be read at all (e.g. bytes that are not text).",
+    },
     422: {
         "model": ErrorBody,
         "description": "The body is not valid JSON, or an input cannot be computed; the body says which.",
     },
+}
+
+
+#: what a route that needs a signed-in user may also answer (see server/web/deps.py)
+SIGNED_IN_RESPONSES: dict[int | str, dict[str, Any]] = {
+    401: {"model": ErrorBody, "description": "Not signed in (no valid session cookie)."},
+    403: {
+        "model": ErrorBody,
+        "description": "A state-changing request without the session's CSRF token "
+        "(send it in the X-CSRF-Token header).",
+    },
+}
+NOT_FOUND_RESPONSES: dict[int | str, dict[str, Any]] = {
+    404: {"model": ErrorBody, "description": "No such house in the signed-in user's firm."},
 }
 
 

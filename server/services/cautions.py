@@ -36,6 +36,7 @@ KIND_TOPICS = {
     "rim_joist": ("walls", "foam"),
     "basement_wall": ("walls", "foam"),
     "floor": ("floors",),
+    "pipe_run": ("pipes",),
 }
 
 

@@ -20,10 +20,7 @@ DEFAULT_HEATING = {"fuel": "natural_gas", "efficiency": 0.80, "price": 1.40}
 
 def house_document(house: House, *, extra_package: list[str] | None = None) -> HouseDocument:
     """The house as one document; ``extra_package`` adds a package of chosen upgrade ids."""
-    surfaces = [
-        {"id": s.slug, "kind": s.kind, "name": s.name, "area": s.area, "assembly": s.assembly}
-        for s in house.surfaces
-    ]
+    surfaces = [_surface(s) for s in house.surfaces]
     known = {u.slug for u in house.upgrades}
     packages = [
         {"id": p.slug, "name": p.name, "upgrades": [x for x in p.upgrade_slugs if x in known]}
@@ -64,6 +61,13 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
         raise InputError(".".join(str(p) for p in first["loc"]), first["msg"]) from None
 
 
+def _surface(s: Surface) -> dict[str, Any]:
+    if s.kind == "pipe_run":
+        return {"id": s.slug, "kind": s.kind, "name": s.name, "length": s.area,
+                "pipe": s.details.get("pipe"), "hours_per_year": s.details.get("hours_per_year")}  # fmt: skip
+    return {"id": s.slug, "kind": s.kind, "name": s.name, "area": s.area, "assembly": s.assembly}
+
+
 CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base")
 
 
@@ -88,6 +92,12 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
     )
     house.economics = document.economics.model_dump(exclude_none=True)
     for i, s in enumerate(document.surfaces):
+        if s.kind == "pipe_run":
+            session.add(Surface(house=house, position=i, slug=s.id, name=s.name or s.id, kind=s.kind,
+                                area=s.length or 0.0, assembly={},
+                                details={"pipe": s.pipe.model_dump(exclude_none=True) if s.pipe else {},
+                                         "hours_per_year": s.hours_per_year}))  # fmt: skip
+            continue
         if s.assembly is None:
             raise InputError(f"surfaces[{i}].assembly", "saved houses need each surface's layers")
         session.add(

@@ -15,6 +15,7 @@ from server.errors import InputError
 from server.models import House, Organization, Surface, utcnow
 from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
+from server.services.code_check import code_verdict
 from server.services.typical import typical_assemblies
 
 SURFACE_KINDS = {
@@ -239,12 +240,15 @@ class SurfaceRow:
     ua: float | None
     share: float | None
     error: str | None
+    code: Any = None  # CodeVerdict of the prescriptive target, when the zone is known
 
 
 def surface_rows(house: House, catalog: Catalog) -> tuple[list[SurfaceRow], float]:
     """Each surface with its R, U, UA (U × area) and share of the envelope UA."""
     rows: list[SurfaceRow] = []
     for surface in house.surfaces:
+        if surface.kind == "pipe_run":
+            continue  # pipe runs have their own table (pipe_rows)
         try:
             result = evaluate_assembly(
                 AssemblyInput.model_validate(surface.assembly),
@@ -254,7 +258,8 @@ def surface_rows(house: House, catalog: Catalog) -> tuple[list[SurfaceRow], floa
         except (InputError, ValueError) as exc:
             rows.append(SurfaceRow(surface, None, None, None, str(exc)))
             continue
-        rows.append(SurfaceRow(surface, result, result.u_factor * surface.area, None, None))
+        verdict = code_verdict(house.climate, surface.kind, result)
+        rows.append(SurfaceRow(surface, result, result.u_factor * surface.area, None, None, verdict))
     total = sum(r.ua or 0.0 for r in rows)
     for row in rows:
         if row.ua is not None and total > 0:
@@ -276,3 +281,55 @@ def switch_units(
     house.units = units
     touch(house)
     session.flush()
+
+
+def add_pipe_run(
+    *, session: Session, house: House, name: str, length: float, pipe: dict[str, Any],
+    hours_per_year: float, expected_version: int | None,
+) -> Surface:  # fmt: skip
+    """A hot-water or heating pipe run: length (ft / m), pipe spec as /calc/pipe, hours hot."""
+    from pydantic import ValidationError
+
+    from server.documents.house import PipeIn
+
+    check_version(house, expected_version)
+    if not (0 < length < 1e5):
+        raise InputError("length", "must be greater than zero")
+    if not (0 < hours_per_year <= 8784):
+        raise InputError("hours_per_year", "must be between 0 and 8,784 hours")
+    try:
+        spec = PipeIn.model_validate(pipe).model_dump(exclude_none=True)
+    except ValidationError as exc:
+        err = exc.errors()[0]
+        where = ".".join(str(p) for p in err["loc"]) or "pipe"
+        raise InputError(where, str(err["msg"]).removeprefix("Value error, ")) from None
+    name = name.strip() or "Pipe run"
+    surface = Surface(
+        house=house, position=len(house.surfaces), slug=_slug(name, {s.slug for s in house.surfaces}),
+        name=name[:200], kind="pipe_run", area=length, assembly={},
+        details={"pipe": spec, "hours_per_year": hours_per_year},
+    )  # fmt: skip
+    session.add(surface)
+    touch(house)
+    session.flush()
+    return surface
+
+
+def pipe_rows(house: House) -> list[tuple[Surface, Any]]:
+    """Each pipe run with its /calc/pipe result (or the error text)."""
+    from server.documents.pipe import PipeRequest
+    from server.services.pipe import compute_pipe
+
+    rows: list[tuple[Surface, Any]] = []
+    for surface in house.surfaces:
+        if surface.kind != "pipe_run":
+            continue
+        try:
+            request = PipeRequest.model_validate(
+                {"units": house.units, **surface.details["pipe"], "length": surface.area,
+                 "hours_per_year": surface.details.get("hours_per_year")}
+            )  # fmt: skip
+            rows.append((surface, compute_pipe(request)))
+        except (InputError, ValueError, KeyError) as exc:
+            rows.append((surface, str(exc)))
+    return rows

@@ -103,7 +103,9 @@ def unit_cost_in(item: PriceSource, units: str) -> float:
     return item.unit_cost * factor  # per m(²) -> per ft(²)
 
 
-def price_upgrade(item: PriceSource, quantity: float, *, quantity_units: str | None = None) -> float:
+def price_upgrade(
+    item: PriceSource, quantity: float, *, quantity_units: str | None = None
+) -> float:
     """Installed cost = fixed_cost + unit_cost × quantity (area or length; 0 for fixed items).
 
     ``quantity`` is in ``quantity_units`` (default: the item's own units). Raises ValueError

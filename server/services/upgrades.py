@@ -101,13 +101,46 @@ def add_air_sealing(
     return upgrade
 
 
+def add_pipe_insulation(
+    *, session: Session, house: House, surface: Surface, name: str, thickness: float, conductivity: float,
+    expected_version: int | None,
+) -> Upgrade:  # fmt: skip
+    """Insulation for a pipe run (one layer over the existing ones), priced fixed + per length."""
+    check_version(house, expected_version)
+    if surface.kind != "pipe_run":
+        raise InputError("surface_id", "pipe insulation goes on a pipe run")
+    if not (0 < thickness < 1e4):
+        raise InputError("thickness", "must be greater than zero")
+    if not (0 < conductivity < 1e3):
+        raise InputError("conductivity", "must be greater than zero")
+    existing = list((surface.details.get("pipe") or {}).get("layers") or [])
+    name = name.strip() or f"{surface.name}: insulate"
+    doc = {"surface": surface.slug, "pipe_layers": [*existing, {"thickness": thickness, "conductivity": conductivity}],
+           "cost": {"fixed": 0.0, "per_length": 0.0}, "rebate": 0.0, "life_years": 20.0}  # fmt: skip
+    upgrade = Upgrade(house=house, surface_id=surface.id, position=len(house.upgrades), kind="pipe_insulation",
+                      slug=_slug(name, {u.slug for u in house.upgrades}), name=name[:200], document=doc)  # fmt: skip
+    session.add(upgrade)
+    touch(house)
+    session.flush()
+    return upgrade
+
+
 def update_upgrade(
     *, session: Session, house: House, upgrade: Upgrade, name: str, fixed: float, per_area: float,
     rebate: float, life_years: float | None, expected_version: int | None,
 ) -> None:  # fmt: skip
     check_version(house, expected_version)
     doc = dict(upgrade.document)
-    doc.update(_costs(fixed, per_area if "assembly" in doc else 0.0, rebate, life_years))
+    doc.update(
+        _costs(
+            fixed,
+            per_area if ("assembly" in doc or "pipe_layers" in doc) else 0.0,
+            rebate,
+            life_years,
+        )
+    )
+    if "pipe_layers" in doc:  # pipe insulation is priced per length, not per area
+        doc["cost"] = {"fixed": doc["cost"]["fixed"], "per_length": doc["cost"]["per_area"]}
     upgrade.document = doc
     upgrade.name = (name.strip() or upgrade.name)[:200]
     touch(house)

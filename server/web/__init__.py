@@ -2,10 +2,10 @@
 
 from fastapi import APIRouter
 
-from server.web.routes import compare, house_settings, houses, library, surfaces, tools, upgrades
+from server.web.routes import compare, house_settings, houses, library, pipe_runs, surfaces, tools, upgrades
 from server.web.routes import auth, price_book, quote, sharing
 
 web_router = APIRouter(include_in_schema=False)
-for module in (auth, houses, house_settings, surfaces, upgrades, compare, library, tools, sharing,
+for module in (auth, houses, house_settings, surfaces, pipe_runs, upgrades, compare, library, tools, sharing,
                price_book, quote):  # fmt: skip
     web_router.include_router(module.router)

@@ -1,8 +1,23 @@
-"""Dependencies for the HTML routes: session, current firm, templates."""
+"""Dependencies for the HTML and JSON routes: session, signed-in user, firm, CSRF, templates.
+
+Who may call what (decided here, proved by tests/security/test_route_matrix.py):
+
+- Public, no sign-in: the stateless calculators under ``/api/v1/calc/`` (they store and read
+  nothing of any firm), the homeowner's shared view ``/s/...`` (its token is the key),
+  ``/login``, ``/healthz``, ``/static``, ``/openapi.json`` and ``/docs``.
+- Everything else needs a signed-in, active user: pages redirect (303) to
+  ``/login?next=<path>``, ``/api/`` routes answer 401 ``{"detail": "sign in first"}``.
+- Every POST/PUT/PATCH/DELETE except ``/api/v1/calc/`` must carry the CSRF token (form field
+  ``csrf_token`` or header ``X-CSRF-Token``), else 403.
+
+Both rules are app-wide dependencies (:func:`signed_in_gate`, :func:`csrf_protect`) so a new
+route cannot forget them; ``CurrentUser``/``OrgDep`` on a route say the same thing again.
+"""
 
 from __future__ import annotations
 
 from collections.abc import Iterator
+from dataclasses import dataclass
 from typing import Annotated, Any
 
 from fastapi import Depends, Request
@@ -12,9 +27,46 @@ from markupsafe import Markup
 from sqlalchemy.orm import Session
 
 from server.config import ROOT
-from server.models import Organization
-from server.services.houses import default_organization
+from server.models import Organization, User
+from server.security import CSRF_FIELD, CSRF_HEADER, tokens_match
+from server.services import accounts
+from server.services.houses import NotFound
 from server.web import formatting
+
+SAFE_METHODS = frozenset({"GET", "HEAD", "OPTIONS", "TRACE"})
+PUBLIC_PATHS = frozenset({"/login", "/healthz", "/openapi.json", "/docs", "/docs/oauth2-redirect",
+                          "/redoc"})  # fmt: skip
+PUBLIC_PREFIXES = ("/s/", "/static/", "/api/v1/calc/")
+CSRF_EXEMPT_PREFIXES = ("/api/v1/calc/",)  # stateless, public, called by other tools
+_UNSET = object()
+
+
+@dataclass(frozen=True, slots=True)
+class Viewer:
+    """The signed-in user as templates see it: plain values that outlive the DB session (error
+    pages render after the session has rolled back)."""
+
+    id: int
+    email: str
+    name: str
+    role: str
+
+    @classmethod
+    def of(cls, user: User) -> Viewer:
+        return cls(id=user.id, email=user.email, name=user.name, role=user.role)
+
+
+class SignInRequired(Exception):
+    """No valid session for a route that needs one (303 to /login, or 401 for the API)."""
+
+
+class CsrfRejected(Exception):
+    """A state-changing request without the right CSRF token (403)."""
+
+
+def is_public(path: str) -> bool:
+    """Paths anyone may call without signing in."""
+    return path in PUBLIC_PATHS or path == "/s" or path.startswith(PUBLIC_PREFIXES)
 
 
 def get_session(request: Request) -> Iterator[Session]:
@@ -33,27 +85,104 @@ def get_session(request: Request) -> Iterator[Session]:
 SessionDep = Annotated[Session, Depends(get_session)]
 
 
-def get_organization(session: SessionDep) -> Organization:
-    """The signed-in user's firm (before accounts: the default firm)."""
-    return default_organization(session=session)
+def get_current_user(request: Request, session: SessionDep) -> User | None:
+    """The signed-in user, or None (no cookie, bad signature, expired, revoked or inactive)."""
+    cached = getattr(request.state, "user", _UNSET)
+    if cached is not _UNSET:
+        return cached  # type: ignore[no-any-return]
+    data = getattr(request.state, "session_data", None)
+    user = None
+    if data is not None:
+        user = accounts.user_for_session(
+            session=session, user_id=data.user_id, session_version=data.session_version
+        )
+    request.state.user = user
+    request.state.viewer = Viewer.of(user) if user is not None else None
+    return user
+
+
+def require_user(user: Annotated[User | None, Depends(get_current_user)]) -> User:
+    """The signed-in user; anyone else is sent to sign in."""
+    if user is None:
+        raise SignInRequired
+    return user
+
+
+CurrentUser = Annotated[User, Depends(require_user)]
+
+
+def require_admin(user: CurrentUser) -> User:
+    """A signed-in admin; staff get 404 (the page does not exist for them)."""
+    if user.role != "admin":
+        raise NotFound
+    return user
+
+
+AdminUser = Annotated[User, Depends(require_admin)]
+
+
+def get_organization(session: SessionDep, user: CurrentUser) -> Organization:
+    """The signed-in user's firm: every firm-owned query is filtered on its id."""
+    return accounts.organization_of(session=session, user=user)
 
 
 OrgDep = Annotated[Organization, Depends(get_organization)]
 
 
+def signed_in_gate(request: Request, session: SessionDep) -> None:
+    """App-wide: every route outside :func:`is_public` needs a signed-in user."""
+    if is_public(request.url.path):
+        return
+    if get_current_user(request, session) is None:
+        raise SignInRequired
+
+
+async def csrf_protect(request: Request) -> None:
+    """App-wide: state-changing requests must echo the CSRF token (header or form field)."""
+    if request.method in SAFE_METHODS or request.url.path.startswith(CSRF_EXEMPT_PREFIXES):
+        return
+    expected = getattr(request.state, "csrf_token", None)
+    given: object = request.headers.get(CSRF_HEADER)
+    if not given:
+        content_type = request.headers.get("content-type", "")
+        if content_type.startswith(("application/x-www-form-urlencoded", "multipart/form-data")):
+            given = (await request.form()).get(CSRF_FIELD)
+    if not tokens_match(expected, given):
+        raise CsrfRejected
+
+
+def _request_state(context: dict[str, Any], name: str) -> Any:
+    request = context.get("request")
+    state = getattr(request, "state", None) if request is not None else None
+    return getattr(state, name, None) if state is not None else None
+
+
+@pass_context
+def csrf_token(context: dict[str, Any]) -> str:
+    """This visitor's CSRF token (for ``hx-headers`` on ``<body>``)."""
+    return str(_request_state(context, "csrf_token") or "")
+
+
 @pass_context
 def csrf_field(context: dict[str, Any]) -> Markup:
     """The hidden CSRF input for a POST form (token from ``request.state.csrf_token``)."""
-    request = context.get("request")
-    token = getattr(getattr(request, "state", None), "csrf_token", "") if request else ""
+    token = _request_state(context, "csrf_token")
     if not token:
         return Markup("")
     return Markup('<input type="hidden" name="csrf_token" value="{}">').format(token)
 
 
+@pass_context
+def current_user(context: dict[str, Any]) -> Viewer | None:
+    """The signed-in user when this request looked them up (None on public pages)."""
+    return _request_state(context, "viewer")  # type: ignore[no-any-return]
+
+
 def make_templates() -> Jinja2Templates:
     templates = Jinja2Templates(directory=str(ROOT / "templates"))
     templates.env.globals["csrf_field"] = csrf_field
+    templates.env.globals["csrf_token"] = csrf_token
+    templates.env.globals["current_user"] = current_user
     templates.env.filters.update(formatting.FILTERS)
     templates.env.globals.update(formatting.GLOBALS)
     return templates

@@ -9,8 +9,8 @@ import pytest
 pytestmark = pytest.mark.browser
 
 
-def test_compare_toggle(browser, live_server: str, shot_dir) -> None:  # type: ignore[no-untyped-def]
-    page = browser.new_page(viewport={"width": 1024, "height": 768})
+def test_compare_toggle(browser, live_server: str, signed_in, shot_dir) -> None:  # type: ignore[no-untyped-def]
+    page = browser.new_page(viewport={"width": 1024, "height": 768}, storage_state=signed_in)
     page.goto(live_server + "/houses")
     page.get_by_role("link", name=re.compile("Quillfeather")).first.click()
     page.get_by_role("link", name=re.compile("Compare upgrades")).click()

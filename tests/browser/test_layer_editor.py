@@ -15,8 +15,8 @@ def _open_demo_surface(page, base: str, name: str) -> None:  # type: ignore[no-u
     page.get_by_role("link", name=name).click()
 
 
-def test_edit_layer_changes_r(browser, live_server: str, shot_dir) -> None:  # type: ignore[no-untyped-def]
-    page = browser.new_page(viewport={"width": 1024, "height": 768})
+def test_edit_layer_changes_r(browser, live_server: str, signed_in, shot_dir) -> None:  # type: ignore[no-untyped-def]
+    page = browser.new_page(viewport={"width": 1024, "height": 768}, storage_state=signed_in)
     _open_demo_surface(page, live_server, "Walls, first floor")
     total = page.locator("#r-total")
     # Demo wall: empty 2x4 cavities (cavity) → by parallel path:
@@ -46,8 +46,8 @@ def test_edit_layer_changes_r(browser, live_server: str, shot_dir) -> None:  # t
     page.close()
 
 
-def test_add_layer_with_button_and_phone_layout(browser, live_server: str, shot_dir) -> None:  # type: ignore[no-untyped-def]
-    page = browser.new_page(viewport={"width": 390, "height": 844})
+def test_add_layer_with_button_and_phone_layout(browser, live_server: str, signed_in, shot_dir) -> None:  # type: ignore[no-untyped-def]
+    page = browser.new_page(viewport={"width": 390, "height": 844}, storage_state=signed_in)
     _open_demo_surface(page, live_server, "Rim joist")
     before = page.locator(".layer").count()
     page.get_by_role("button", name="+ Add layer").click()

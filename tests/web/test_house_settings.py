@@ -101,3 +101,19 @@ def test_not_a_weather_file_is_refused(client: TestClient) -> None:
         f"{house}/weather", files={"file": ("notes.txt", b"just some notes\nnothing here\n")}
     )
     assert r.status_code == 422 and "The weather file was not used." in r.text
+
+
+def test_code_target_beside_surfaces_once_zone_known(client: TestClient) -> None:
+    house = _house(client)
+    surface = client.post(f"{house}/surfaces", data={"typical": "attic-2x6-16-empty", "area": "500"},
+                          follow_redirects=False).headers["location"]  # fmt: skip
+    assert "✗ below" not in client.get(house).text  # no zone yet: no verdict
+    r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "5a"}, headers=HX)
+    assert "Climate saved." in r.text
+    page = client.get(house).text
+    # Empty attic → U 0.44 against the zone 5 ceiling maximum U-0.024 (IECC 2021
+    # R402.1.2, from memory — server/data/code_targets.csv): below target
+    assert "✗ below" in page and "verify with your locally adopted code" in page
+    assert "Below the code target" in client.get(surface).text
+    r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "9Z"}, headers=HX)
+    assert "write the zone like 5 or 5A" in r.text and 'value="9Z"' in r.text

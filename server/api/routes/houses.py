@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from fastapi import APIRouter, Depends
 
-from server.api.errors import ERROR_RESPONSES
+from server.api.errors import ERROR_RESPONSES, NOT_FOUND_RESPONSES, SIGNED_IN_RESPONSES
 from server.documents.house import HouseDocument
 from server.models import Organization
 from server.services.house_document import house_document, import_house
@@ -17,7 +17,7 @@ router = APIRouter(tags=["houses"])
 @router.get(
     "/houses/{house_id}/document",
     response_model=HouseDocument,
-    responses={404: {"description": "no such house"}},
+    responses={**ERROR_RESPONSES, **SIGNED_IN_RESPONSES, **NOT_FOUND_RESPONSES},
 )
 def export_house(
     house_id: int, session: SessionDep, org: Organization = Depends(get_organization)
@@ -26,7 +26,7 @@ def export_house(
     return house_document(get_house(session=session, organization_id=org.id, house_id=house_id))
 
 
-@router.post("/houses", status_code=201, responses=ERROR_RESPONSES)
+@router.post("/houses", status_code=201, responses={**ERROR_RESPONSES, **SIGNED_IN_RESPONSES})
 def import_house_document(
     document: HouseDocument, session: SessionDep, org: Organization = Depends(get_organization)
 ) -> dict[str, int | str]:

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
 from fastapi import APIRouter, Request, UploadFile
@@ -60,6 +61,10 @@ async def save_section(
     stored = getattr(house, COLUMNS[section]) or {}
     keep: dict[str, Any] = {}
     doc, errors = parse_section(section, data, keep)
+    zone = data.get("climate_zone", "").strip().upper()
+    if section == "climate" and zone and not re.fullmatch(r"[0-8][ABC]?", zone):
+        errors = {**errors, "climate_zone": "write the zone like 5 or 5A (0 to 8, then A, B or C)"}
+        doc = None
     if doc is not None and section == "climate":
         doc, errors = _with_balance_point(house, doc, data, errors)
     if doc is not None:
@@ -75,6 +80,8 @@ async def save_section(
         return _respond(request, house, ctx, 409 if "form" in errors else 422)
     if section == "climate":
         doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
+        if zone:
+            doc["climate_zone"] = zone
     setattr(house, COLUMNS[section], doc)
     svc.touch(house)
     session.flush()

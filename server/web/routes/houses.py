@@ -67,6 +67,7 @@ def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-unty
         "house": house,
         "rows": rows,
         "total_ua": total_ua,
+        "pipes": svc.pipe_rows(house),
         "kinds": svc.SURFACE_KINDS,
         "typicals": typical_assemblies(),
         "form": {},

@@ -10,6 +10,7 @@ from server.errors import InputError
 from server.services import houses as svc
 from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
+from server.services.code_check import code_verdict
 from server.services.library import catalog_for, list_materials
 from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
@@ -45,6 +46,7 @@ def _context(session, org, house, surface, form: AssemblyForm, result, message: 
     catalog = catalog_for(session=session, organization_id=org.id)
     return {
         "moisture": None if form.has_errors else _moisture(house, surface, result, catalog),
+        "code": code_verdict(house.climate, surface.kind, result),
         "cautions": cautions_for([surface.kind]),
         "house": house,
         "surface": surface,
@@ -62,6 +64,17 @@ def _context(session, org, house, surface, form: AssemblyForm, result, message: 
     }
 
 
+def pipe_run_context(session, org, house, surface) -> dict:  # type: ignore[no-untyped-def]
+    """A pipe run's page: its loss (same code path as /calc/pipe), its upgrades, cautions."""
+    result = next((r for s, r in svc.pipe_rows(house) if s.id == surface.id), None)
+    return {
+        "house": house, "surface": surface, "result": result if not isinstance(result, str) else None,
+        "error": result if isinstance(result, str) else None, "units": house.units,
+        "upgrades": [u for u in house.upgrades if u.surface_id == surface.id],
+        "cautions": cautions_for(["pipe_run"]), "insulate_errors": {}, "insulate_form": {},
+    }  # fmt: skip
+
+
 def _load(session, org, house_id: int, surface_id: int):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     surface = svc.get_surface(
@@ -75,6 +88,8 @@ def surface_page(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
+    if surface.kind == "pipe_run":
+        return render(request, "pages/pipe_run.html", pipe_run_context(session, org, house, surface))
     catalog = catalog_for(session=session, organization_id=org.id)
     form = form_from_document(surface.assembly, house.units)
     try:

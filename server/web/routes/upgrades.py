@@ -11,6 +11,7 @@ from server.services import houses as svc
 from server.services import upgrades as upg
 from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
+from server.services.code_check import code_verdict
 from server.services.library import catalog_for, list_materials
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
@@ -66,6 +67,7 @@ def _upgrade_context(session, org, house, upgrade, form=None, result=None, messa
         "materials": list_materials(session=session, organization_id=org.id),
         "typicals": typical_assemblies(), "moisture": None,
         "cautions": cautions_for(kinds, extra_topics=topics),
+        "code": code_verdict(house.climate, surface.kind, result) if surface else None,
     }  # fmt: skip
 
 

@@ -1,0 +1,1 @@
+"""Builders shared by tests and scripts (big houses, signed-in clients)."""
