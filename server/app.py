@@ -16,12 +16,12 @@ from server.api import api_router
 from server.api.errors import install_error_handlers
 from server.config import ROOT, Settings, get_settings
 from server.db import make_engine, make_session_factory
+from server import security
 from server.security import (
     ANON_CSRF_COOKIE,
     ANON_MAX_AGE_SECONDS,
     SESSION_COOKIE,
     SESSION_REFRESH_SECONDS,
-    clock,
     cookie_header,
     csrf_for_anon,
     csrf_for_session,
@@ -74,7 +74,7 @@ class SecurityMiddleware:
         if data is not None:
             state["session_data"] = data
             state["csrf_token"] = csrf_for_session(secret, data)
-            if clock() - data.issued_at >= SESSION_REFRESH_SECONDS and not static:
+            if security.clock() - data.issued_at >= SESSION_REFRESH_SECONDS and not static:
                 value = refresh_session(secret, data)
                 header = session_cookie_header(value, signed_in_at=data.signed_in_at, secure=secure)
                 new_cookies.append((SESSION_COOKIE, header))
@@ -109,6 +109,8 @@ class SecurityMiddleware:
 
 
 def _install_security_handlers(app: FastAPI) -> None:
+    forbidden = app.state.templates.env.from_string(FORBIDDEN_PAGE)
+
     @app.exception_handler(SignInRequired)
     async def _sign_in(request: Request, _exc: SignInRequired) -> Response:
         if request.url.path.startswith("/api/"):
@@ -126,7 +128,7 @@ def _install_security_handlers(app: FastAPI) -> None:
         if request.url.path.startswith("/api/"):
             body = {"detail": "missing or wrong CSRF token (send the X-CSRF-Token header)", "errors": []}
             return JSONResponse(body, status_code=403)
-        html = app.state.templates.env.from_string(FORBIDDEN_PAGE).render(request=request)
+        html = forbidden.render(request=request)
         return HTMLResponse(html, status_code=403)
 
 

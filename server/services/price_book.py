@@ -24,7 +24,7 @@ from sqlalchemy import select
 from sqlalchemy.orm import Session, object_session
 
 from server.errors import FieldError, InputError
-from server.models import PriceBookItem, utcnow
+from server.models import House, PriceBookItem, Upgrade, utcnow
 from server.physics.units import FOOT_M, SQFT_M2
 from server.services.houses import NotFound
 
@@ -300,8 +300,19 @@ def update_item(
 
 
 def delete_item(*, session: Session, organization_id: int, item_id: int) -> None:
-    """Remove a row; upgrades that linked to it keep the cost last filled in."""
+    """Remove a row. Upgrades linked to it keep its last price, written into their own cost."""
     item = get_item(session=session, organization_id=organization_id, item_id=item_id)
+    linked = session.scalars(
+        select(Upgrade).join(House).where(House.organization_id == organization_id)
+    )
+    for upgrade in linked:
+        if (upgrade.document or {}).get("price_item") != item.slug:
+            continue
+        try:
+            document = apply_price_item(upgrade.document, item, units=upgrade.house.units)
+        except InputError:  # no longer fits: keep the cost the upgrade already holds
+            document = upgrade.document
+        upgrade.document = {k: v for k, v in document.items() if k != "price_item"}
     session.delete(item)
     session.flush()
 

@@ -82,7 +82,9 @@ def get_session(request: Request) -> Iterator[Session]:
         session.close()
 
 
-SessionDep = Annotated[Session, Depends(get_session)]
+#: scope="function": the commit runs when the route returns, before the response is sent, so
+#: a 201/303 is never sent for a save that is not committed (tests/durability/test_crash.py)
+SessionDep = Annotated[Session, Depends(get_session, scope="function")]
 
 
 def get_current_user(request: Request, session: SessionDep) -> User | None:

@@ -61,7 +61,13 @@ DB_PATH = Path(tempfile.gettempdir()) / f"warmstead-fuzz-{os.getpid()}.db"
 APP = create_app(Settings(environment="test", database_url=f"sqlite:///{DB_PATH}"))
 SCHEMA = schemathesis.openapi.from_asgi("/openapi.json", APP)
 calculators = SCHEMA.include(path_regex=CALC)
-saved_houses = SCHEMA.exclude(path_regex=CALC)
+#: the saved-house routes take the calc/house document, whose edge cases the calculators'
+#: coverage phase already walks: here generated cases only (the coverage phase doubles the time)
+saved_houses = schemathesis.openapi.from_asgi(
+    "/openapi.json",
+    APP,
+    config=schemathesis.Config.from_dict({"phases": {"coverage": {"enabled": False}}}),
+).exclude(path_regex=CALC)
 
 
 @pytest.fixture(scope="module", autouse=True)
@@ -97,14 +103,6 @@ def test_saved_house_routes_never_fail_and_answer_as_documented(
     case: Any, signed_in: dict[str, str]
 ) -> None:
     case.call_and_validate(checks=CHECKS, headers=signed_in)
-
-
-@saved_houses.parametrize()
-@settings(BOUNDED, max_examples=5)
-def test_saved_house_routes_refuse_strangers_as_documented(case: Any) -> None:
-    response = case.call()
-    assert not 200 <= response.status_code < 300, response.text[:200]
-    case.validate_response(response, checks=CHECKS)
 
 
 def test_every_api_operation_is_fuzzed(api_schema: Any) -> None:
@@ -220,3 +218,23 @@ def test_the_documented_error_body_is_what_a_bad_request_gets(api_schema: Any) -
         assert response.status_code == status, response.text
         case.validate_response(response, checks=CHECKS)
         assert re.search(r"\w", response.json()["detail"])
+
+
+@pytest.mark.parametrize(
+    ("method", "path", "body"),
+    [("GET", "/api/v1/houses/1/document", None), ("POST", "/api/v1/houses", HOUSE_IP)],
+)
+def test_saved_house_routes_refuse_strangers_as_documented(
+    method: str, path: str, body: dict[str, Any] | None
+) -> None:
+    operation = SCHEMA[path.replace("/1/", "/{house_id}/")][method]
+    if body is None:
+        case = operation.Case(path_parameters={"house_id": 1})
+    else:
+        case = operation.Case(body=body, media_type="application/json")
+    response = case.call()
+    assert response.status_code == 401, response.text[:200]  # not signed in
+    case.validate_response(response, checks=CHECKS)
+    with_cookie_no_token = case.call(headers={"Cookie": "warmstead_session=forged"})
+    assert with_cookie_no_token.status_code == 401  # a forged cookie is no session
+    case.validate_response(with_cookie_no_token, checks=CHECKS)

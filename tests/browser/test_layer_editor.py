@@ -5,6 +5,7 @@ from __future__ import annotations
 import re
 
 import pytest
+from playwright.sync_api import expect
 
 pytestmark = pytest.mark.browser
 
@@ -12,7 +13,7 @@ pytestmark = pytest.mark.browser
 def _open_demo_surface(page, base: str, name: str) -> None:  # type: ignore[no-untyped-def]
     page.goto(base + "/houses")
     page.get_by_role("link", name=re.compile("Quillfeather")).first.click()
-    page.get_by_role("link", name=name).click()
+    page.get_by_role("link", name=name, exact=True).click()
 
 
 def test_edit_layer_changes_r(browser, live_server: str, signed_in, shot_dir) -> None:  # type: ignore[no-untyped-def]
@@ -27,7 +28,7 @@ def test_edit_layer_changes_r(browser, live_server: str, signed_in, shot_dir) ->
     field = page.locator("#l2-cavity_r")
     field.fill("12.6")
     field.press("Tab")
-    page.wait_for_function("document.querySelector('#r-total').innerText !== 'R-4.6'")
+    expect(page.locator("#r-total")).not_to_have_text("R-4.6")  # no eval: the CSP forbids it
     # cavity path 4.05 − 1.0 + 12.6 = 15.65; 1 / (0.75/15.65 + 0.0337) = 1 / (0.04792 + 0.03367) = 12.26
     assert total.inner_text() == "R-12.3"
     page.screenshot(path=str(shot_dir / "surface-edited-tablet.png"), full_page=True)
@@ -46,18 +47,20 @@ def test_edit_layer_changes_r(browser, live_server: str, signed_in, shot_dir) ->
     page.close()
 
 
-def test_add_layer_with_button_and_phone_layout(browser, live_server: str, signed_in, shot_dir) -> None:  # type: ignore[no-untyped-def]
+def test_add_layer_with_button_and_phone_layout(
+    browser, live_server: str, signed_in, shot_dir
+) -> None:  # type: ignore[no-untyped-def]
     page = browser.new_page(viewport={"width": 390, "height": 844}, storage_state=signed_in)
     _open_demo_surface(page, live_server, "Rim joist")
     before = page.locator(".layer").count()
     page.get_by_role("button", name="+ Add layer").click()
-    page.wait_for_function(f"document.querySelectorAll('.layer').length === {before + 1}")
+    expect(page.locator(".layer")).to_have_count(before + 1)
     new_r = page.locator(f"#l{before}-r")
     new_r.fill("5")
     new_r.press("Tab")
     page.wait_for_selector("text=Saved.")
     # Rim joist R-4.5 (hand: 0.85 + 0.81 + 0.94 + 1.5/0.8 = 4.475) + R-5 foam = R-9.5
-    page.wait_for_function("document.querySelector('#r-total').innerText === 'R-9.5'")
+    expect(page.locator("#r-total")).to_have_text("R-9.5")
     # Touch targets: every button and input is at least 44 px tall
     heights = page.eval_on_selector_all(
         "button:not([disabled]), input:not([type=hidden]):not([type=radio]), select",

@@ -10,9 +10,9 @@ from sqlalchemy.orm import Session
 
 from server.errors import InputError
 from server.models import User
+from server import security
 from server.security import (
     SESSION_COOKIE,
-    clock,
     expired_cookie_header,
     issue_session,
     safe_next,
@@ -84,7 +84,7 @@ def login(
         return _login_page(
             request, email=email.strip(), next_path=next_path, error=BAD_LOGIN, status_code=401
         )
-    now = clock()
+    now = security.clock()
     value = issue_session(
         request.app.state.settings.secret_key,
         user_id=user.id,

@@ -43,11 +43,11 @@ def _price_words(row_document: dict, items: dict, units: str) -> tuple[str, bool
     if slug and slug in items:
         item = items[slug]
         if item.basis == "fixed":
-            words = f"price book: {item.name}, {money(item.fixed_cost)} fixed"
+            words = f"Priced from the price book: {item.name}, {money(item.fixed_cost)} fixed"
         else:
             per = label["area"] if item.basis == "per_area" else label["length"]
             unit = book.unit_cost_in(item, units)
-            words = (f"price book: {item.name}, ${unit:,.2f} per {per} + "
+            words = (f"Priced from the price book: {item.name}, ${unit:,.2f} per {per} + "
                      f"{money(item.fixed_cost)} fixed")  # fmt: skip
         return words, book.is_example(item)
     cost = row_document.get("cost") or {}
@@ -56,7 +56,7 @@ def _price_words(row_document: dict, items: dict, units: str) -> tuple[str, bool
         parts.append(f"${cost['per_area']:,.2f} per {label['area']}")
     if cost.get("per_length"):
         parts.append(f"${cost['per_length']:,.2f} per {label['length']}")
-    return "entered on the upgrade: " + " + ".join(parts), False
+    return "Priced as entered on the upgrade: " + " + ".join(parts), False
 
 
 def _scope_line(slug, doc, house, result, items) -> dict[str, Any]:  # type: ignore[no-untyped-def]

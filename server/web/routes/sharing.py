@@ -36,7 +36,7 @@ def qr_svg(url: str) -> str:
     """The link as an inline SVG QR code (no style attributes, so a strict CSP allows it)."""
     code = segno.make(url, error="m")
     return code.svg_inline(
-        scale=4, border=2, dark="#1b2730", light="#ffffff", svgclass="qr",
+        scale=5, border=2, dark="#1b2730", light="#ffffff", svgclass="qr",
         title="QR code of the homeowner's link",
     )  # fmt: skip
 

@@ -1,0 +1,96 @@
+"""The compare page costs the same number of SQL statements whatever the house's size (no N+1).
+
+Statements are counted with SQLAlchemy's ``before_cursor_execute`` event on the app's engine
+during one GET, on SQLite and on PostgreSQL (the ``db_url`` fixture). A 3-surface house and a
+40-surface house with 5 upgrades per surface and 6 packages must cost the same count, and that
+count stays small (a bound of 10: sign-in check, firm, house, surfaces, upgrades, packages,
+the firm's materials and price book, with room for one more).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+from contextlib import contextmanager
+from typing import Any
+
+import pytest
+from fastapi.testclient import TestClient
+from sqlalchemy import event
+
+from server.db import session_scope
+from server.documents.house import HouseDocument
+from server.services.house_document import import_house
+from tests.utils.auth import create_signed_in_user, session_headers
+from tests.utils.houses import big_house_document
+
+MAX_STATEMENTS = 10
+
+
+@contextmanager
+def counted(engine: Any) -> Iterator[list[str]]:
+    statements: list[str] = []
+
+    def record(_conn, _cursor, statement, _params, _context, _many):  # type: ignore[no-untyped-def]
+        statements.append(statement)
+
+    event.listen(engine, "before_cursor_execute", record)
+    try:
+        yield statements
+    finally:
+        event.remove(engine, "before_cursor_execute", record)
+
+
+def _import(app: Any, organization_id: int, document: dict[str, Any]) -> int:
+    with session_scope(app.state.session_factory) as session:
+        house = import_house(
+            session=session,
+            organization_id=organization_id,
+            document=HouseDocument.model_validate(document),
+        )
+        return house.id
+
+
+@pytest.fixture
+def signed_in(app: Any) -> tuple[int, dict[str, str]]:
+    org_id, user_id, version = create_signed_in_user(
+        app.state.session_factory, email="counter@example.com"
+    )
+    secret = app.state.settings.secret_key
+    return org_id, session_headers(secret, user_id=user_id, session_version=version)
+
+
+def test_compare_page_statement_count_does_not_grow_with_the_house(
+    app: Any, signed_in: tuple[int, dict[str, str]]
+) -> None:
+    org_id, headers = signed_in
+    small = _import(app, org_id, big_house_document(surfaces=3, upgrades_per_surface=5))
+    big = _import(app, org_id, big_house_document(surfaces=40, upgrades_per_surface=5))
+    counts = {}
+    with TestClient(app) as client:
+        for label, house_id in (("small", small), ("big", big)):
+            # Twice each: a second view of the same house must not cost more either.
+            for attempt in range(2):
+                with counted(app.state.engine) as statements:
+                    response = client.get(f"/houses/{house_id}/compare", headers=headers)
+                assert response.status_code == 200, response.text[:300]
+                assert "cannot be compared" not in response.text
+                counts[(label, attempt)] = len(statements)
+    assert counts[("small", 0)] == counts[("big", 0)], counts
+    assert max(counts.values()) <= MAX_STATEMENTS, counts
+
+
+def test_compare_page_with_a_selection_costs_no_more_per_upgrade(
+    app: Any, signed_in: tuple[int, dict[str, str]]
+) -> None:
+    # Ticking upgrades ("pick") adds a package computed on the fly: still no extra statements.
+    org_id, headers = signed_in
+    house_id = _import(app, org_id, big_house_document(surfaces=40, upgrades_per_surface=5))
+    with TestClient(app) as client:
+        with counted(app.state.engine) as plain:
+            client.get(f"/houses/{house_id}/compare", headers=headers)
+        picks = [("pick", f"s{s}-u0") for s in range(40)]
+        with counted(app.state.engine) as chosen:
+            response = client.get(f"/houses/{house_id}/compare", params=picks, headers=headers)
+    assert response.status_code == 200
+    assert "Your selection" in response.text
+    assert len(chosen) <= len(plain), (len(plain), len(chosen))
