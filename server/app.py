@@ -12,11 +12,11 @@ from starlette.middleware.gzip import GZipMiddleware
 from starlette.requests import cookie_parser
 from starlette.types import ASGIApp, Message, Receive, Scope, Send
 
+from server import security
 from server.api import api_router
 from server.api.errors import install_error_handlers
 from server.config import ROOT, Settings, get_settings
 from server.db import make_engine, make_session_factory
-from server import security
 from server.security import (
     ANON_CSRF_COOKIE,
     ANON_MAX_AGE_SECONDS,
@@ -37,7 +37,13 @@ from server.security import (
 )
 from server.services.houses import NotFound
 from server.web import web_router
-from server.web.deps import CsrfRejected, SignInRequired, csrf_protect, make_templates, signed_in_gate
+from server.web.deps import (
+    CsrfRejected,
+    SignInRequired,
+    csrf_protect,
+    make_templates,
+    signed_in_gate,
+)
 
 FORBIDDEN_PAGE = """{% extends "base.html" %}{% block title %}Not sent{% endblock %}
 {% block content %}<h1>Not sent</h1>
@@ -80,7 +86,9 @@ class SecurityMiddleware:
                 new_cookies.append((SESSION_COOKIE, header))
         else:
             if cookies.get(SESSION_COOKIE):  # tampered, expired or from an old key: drop it
-                new_cookies.append((SESSION_COOKIE, expired_cookie_header(SESSION_COOKIE, secure=secure)))
+                new_cookies.append(
+                    (SESSION_COOKIE, expired_cookie_header(SESSION_COOKIE, secure=secure))
+                )
             nonce = read_anon_cookie(secret, cookies.get(ANON_CSRF_COOKIE))
             if nonce is None and not static:
                 value, nonce = new_anon_cookie(secret)
@@ -126,7 +134,10 @@ def _install_security_handlers(app: FastAPI) -> None:
     @app.exception_handler(CsrfRejected)
     async def _csrf(request: Request, _exc: CsrfRejected) -> Response:
         if request.url.path.startswith("/api/"):
-            body = {"detail": "missing or wrong CSRF token (send the X-CSRF-Token header)", "errors": []}
+            body = {
+                "detail": "missing or wrong CSRF token (send the X-CSRF-Token header)",
+                "errors": [],
+            }
             return JSONResponse(body, status_code=403)
         html = forbidden.render(request=request)
         return HTMLResponse(html, status_code=403)

@@ -231,7 +231,10 @@ def session_cookie_header(value: str, *, signed_in_at: float, secure: bool) -> s
 
 def expired_cookie_header(name: str, *, secure: bool) -> str:
     """A ``Set-Cookie`` that deletes ``name``."""
-    return cookie_header(name, "", max_age=0, secure=secure) + "; Expires=Thu, 01 Jan 1970 00:00:00 GMT"
+    return (
+        cookie_header(name, "", max_age=0, secure=secure)
+        + "; Expires=Thu, 01 Jan 1970 00:00:00 GMT"
+    )
 
 
 def is_shared_view(path: str) -> bool:

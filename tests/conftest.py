@@ -33,9 +33,8 @@ from sqlalchemy import text
 
 warnings.filterwarnings("ignore", message=".*httpx2.*")
 
-from fastapi.testclient import TestClient  # noqa: E402
-
 from argon2 import PasswordHasher  # noqa: E402
+from fastapi.testclient import TestClient  # noqa: E402
 
 from server.app import create_app  # noqa: E402
 from server.cli import migrate  # noqa: E402
@@ -176,9 +175,7 @@ def sign_in(test_client: TestClient, app, account: Account) -> str:  # type: ign
     """Give ``test_client`` a session cookie for ``account``; send its CSRF token on every
     request. Returns the token."""
     secret = app.state.settings.secret_key
-    value = issue_session(
-        secret, user_id=account.user_id, session_version=account.session_version
-    )
+    value = issue_session(secret, user_id=account.user_id, session_version=account.session_version)
     data = read_session(secret, value)
     assert data is not None
     test_client.cookies.set(SESSION_COOKIE, value, domain="testserver.local")

@@ -36,6 +36,16 @@ class NotFound(Exception):
     """The object does not exist for this organization (shown as 404, never 403)."""
 
 
+#: the largest id the id columns hold on both backends (PostgreSQL INTEGER: 2**31 - 1); a larger
+#: one in a URL names nothing, and the drivers cannot even send it (a 500 before this check)
+MAX_ID = 2**31 - 1
+
+
+def _real_id(*ids: int) -> None:
+    if not all(0 < i <= MAX_ID for i in ids):
+        raise NotFound
+
+
 @dataclass
 class Conflict(Exception):
     """Someone else saved the house since this form was loaded."""
@@ -75,6 +85,7 @@ def list_houses(
 
 
 def get_house(*, session: Session, organization_id: int, house_id: int) -> House:
+    _real_id(house_id)
     house = session.scalars(
         select(House)
         .where(House.id == house_id, House.organization_id == organization_id)
@@ -88,6 +99,7 @@ def get_house(*, session: Session, organization_id: int, house_id: int) -> House
 def get_surface(
     *, session: Session, organization_id: int, house_id: int, surface_id: int
 ) -> Surface:
+    _real_id(house_id, surface_id)
     surface = session.scalars(
         select(Surface)
         .join(House)
@@ -271,13 +283,32 @@ def switch_units(
     *, session: Session, house: House, units: Units, expected_version: int | None
 ) -> None:
     """Convert every stored number of the house to the other unit system."""
-    from server.services.convert import convert_assembly, convert_value
+    from server.services import convert as cv
 
     check_version(house, expected_version)
     src: Units = house.units  # type: ignore[assignment]
+    if src == units:
+        return
     for surface in house.surfaces:
-        surface.assembly = convert_assembly(surface.assembly, src, units)
-        surface.area = convert_value(surface.area, "area", src, units)
+        if surface.kind == "pipe_run":
+            surface.area = cv.convert_value(surface.area, "length", src, units)
+            details = dict(surface.details)
+            details["pipe"] = cv.convert_pipe(details.get("pipe") or {}, src, units)
+            surface.details = details
+        else:
+            surface.assembly = cv.convert_assembly(surface.assembly, src, units)
+            surface.area = cv.convert_value(surface.area, "area", src, units)
+    for upgrade in house.upgrades:
+        upgrade.document = cv.convert_upgrade(upgrade.document, src, units)
+    if house.climate:
+        house.climate = cv.convert_climate(house.climate, src, units)
+    if house.air_leakage and house.air_leakage.get("volume"):
+        house.air_leakage = {**house.air_leakage,
+                             "volume": cv.convert_value(house.air_leakage["volume"], "volume", src, units)}  # fmt: skip
+    if house.floor_area:
+        house.floor_area = cv.convert_value(house.floor_area, "area", src, units)
+    if house.volume:
+        house.volume = cv.convert_value(house.volume, "volume", src, units)
     house.units = units
     touch(house)
     session.flush()

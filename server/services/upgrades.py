@@ -131,6 +131,7 @@ def update_upgrade(
 ) -> None:  # fmt: skip
     check_version(house, expected_version)
     doc = dict(upgrade.document)
+    doc.pop("price_item", None)  # typed prices replace a price-book link
     doc.update(
         _costs(
             fixed,

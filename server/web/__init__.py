@@ -2,8 +2,20 @@
 
 from fastapi import APIRouter
 
-from server.web.routes import compare, house_settings, houses, library, pipe_runs, surfaces, tools, upgrades
-from server.web.routes import auth, price_book, quote, sharing
+from server.web.routes import (
+    auth,
+    compare,
+    house_settings,
+    houses,
+    library,
+    pipe_runs,
+    price_book,
+    quote,
+    sharing,
+    surfaces,
+    tools,
+    upgrades,
+)
 
 web_router = APIRouter(include_in_schema=False)
 for module in (auth, houses, house_settings, surfaces, pipe_runs, upgrades, compare, library, tools, sharing,

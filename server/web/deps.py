@@ -89,9 +89,9 @@ SessionDep = Annotated[Session, Depends(get_session, scope="function")]
 
 def get_current_user(request: Request, session: SessionDep) -> User | None:
     """The signed-in user, or None (no cookie, bad signature, expired, revoked or inactive)."""
-    cached = getattr(request.state, "user", _UNSET)
+    cached: User | None | object = getattr(request.state, "user", _UNSET)
     if cached is not _UNSET:
-        return cached  # type: ignore[no-any-return]
+        return cached if isinstance(cached, User) else None
     data = getattr(request.state, "session_data", None)
     user = None
     if data is not None:

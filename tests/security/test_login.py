@@ -28,19 +28,25 @@ def _form_token(client: TestClient, path: str = "/login") -> str:
     return match.group(1)
 
 
-def _login(client: TestClient, email: str, password: str, next_path: str = "", token: str | None = None):  # type: ignore[no-untyped-def]
+def _login(
+    client: TestClient, email: str, password: str, next_path: str = "", token: str | None = None
+):  # type: ignore[no-untyped-def]
     token = token if token is not None else _form_token(client)
     data = {"email": email, "password": password, "next": next_path, "csrf_token": token}
     return client.post("/login", data=data, follow_redirects=False)
 
 
 def _session_cookie_header(response) -> str:  # type: ignore[no-untyped-def]
-    found = [c for c in response.headers.get_list("set-cookie") if c.startswith(SESSION_COOKIE + "=")]
+    found = [
+        c for c in response.headers.get_list("set-cookie") if c.startswith(SESSION_COOKIE + "=")
+    ]
     assert len(found) == 1
     return found[0]
 
 
-def test_sign_in_sets_a_safe_cookie_and_opens_the_app(anon_client: TestClient, firm_a: Account) -> None:
+def test_sign_in_sets_a_safe_cookie_and_opens_the_app(
+    anon_client: TestClient, firm_a: Account
+) -> None:
     r = _login(anon_client, "  Admin@Firm-A.invalid ", TEST_PASSWORD, next_path="/library")
     assert r.status_code == 303 and r.headers["location"] == "/library"
     cookie = _session_cookie_header(r)
@@ -89,7 +95,9 @@ def test_login_form_needs_its_csrf_token(anon_client: TestClient, firm_a: Accoun
 
 
 @SQLITE_ONLY
-def test_wrong_password_keeps_the_email_never_the_password(anon_client: TestClient, firm_a: Account) -> None:
+def test_wrong_password_keeps_the_email_never_the_password(
+    anon_client: TestClient, firm_a: Account
+) -> None:
     r = _login(anon_client, "admin@firm-a.invalid", "wrong-password-typed")
     assert r.status_code == 401
     assert 'value="admin@firm-a.invalid"' in r.text
@@ -101,15 +109,29 @@ def test_wrong_password_keeps_the_email_never_the_password(anon_client: TestClie
 
 
 @SQLITE_ONLY
-def test_unknown_email_still_runs_a_password_check(app, firm_a: Account, monkeypatch: pytest.MonkeyPatch) -> None:  # type: ignore[no-untyped-def]
+def test_unknown_email_still_runs_a_password_check(
+    app, firm_a: Account, monkeypatch: pytest.MonkeyPatch
+) -> None:  # type: ignore[no-untyped-def]
     calls: list[str] = []
     real = security.verify_password
-    monkeypatch.setattr(accounts, "verify_password", lambda h, p: calls.append("user") or real(h, p))
+    monkeypatch.setattr(
+        accounts, "verify_password", lambda h, p: calls.append("user") or real(h, p)
+    )
     monkeypatch.setattr(accounts, "dummy_verify", lambda p: calls.append("dummy"))
     with session_scope(app.state.session_factory) as s:
-        assert accounts.authenticate(session=s, email="nobody@x.invalid", password="x" * 12, client="c") is None
-        assert accounts.authenticate(session=s, email=firm_a.email, password="x" * 12, client="c") is None
-        assert accounts.authenticate(session=s, email=firm_a.email, password=TEST_PASSWORD, client="c")
+        assert (
+            accounts.authenticate(
+                session=s, email="nobody@x.invalid", password="x" * 12, client="c"
+            )
+            is None
+        )
+        assert (
+            accounts.authenticate(session=s, email=firm_a.email, password="x" * 12, client="c")
+            is None
+        )
+        assert accounts.authenticate(
+            session=s, email=firm_a.email, password=TEST_PASSWORD, client="c"
+        )
     assert calls == ["dummy", "user", "user"]
 
 

@@ -54,7 +54,9 @@ def _routes(app) -> list[tuple[str, str, Any]]:  # type: ignore[no-untyped-def]
     rows = []
     for route in _flat_routes(app.routes):
         if getattr(route, "dependant", None) is None:
-            assert route.path in NOT_OURS, f"unexpected route that is not an API route: {route.path}"
+            assert route.path in NOT_OURS, (
+                f"unexpected route that is not an API route: {route.path}"
+            )
             continue
         assert isinstance(route.original_route if hasattr(route, "original_route") else route,
                           APIRoute)  # fmt: skip
@@ -65,9 +67,7 @@ def _routes(app) -> list[tuple[str, str, Any]]:  # type: ignore[no-untyped-def]
 
 def _is_public(method: str, path: str) -> bool:
     return (
-        (method, path) in PUBLIC_EXACT
-        or path.startswith("/api/v1/calc/")
-        or path.startswith("/s/")
+        (method, path) in PUBLIC_EXACT or path.startswith("/api/v1/calc/") or path.startswith("/s/")
     )
 
 
@@ -198,7 +198,9 @@ def _protected(app) -> list[tuple[str, str, Any]]:  # type: ignore[no-untyped-de
 
 
 @SQLITE_ONLY
-def test_tampered_cookie_is_anonymous(app, client: TestClient, firm_a_objects: FirmAObjects) -> None:  # type: ignore[no-untyped-def]
+def test_tampered_cookie_is_anonymous(
+    app, client: TestClient, firm_a_objects: FirmAObjects
+) -> None:  # type: ignore[no-untyped-def]
     good = client.cookies.get(SESSION_COOKIE)
     assert good and client.get("/houses").status_code == 200
     signature = good.rsplit(".", 1)[1]
@@ -308,7 +310,9 @@ def test_other_firm_gets_404_for_firm_a_objects(app, client: TestClient, other_c
             assert own.status_code == 200, f"Firm A: GET {path} -> {own.status_code}"
         response = _request(other_client, method, url, route)
         where = f"Firm B: {method} {path}"
-        assert response.status_code == 404, f"{where} -> {response.status_code}: {response.text[:200]}"
+        assert response.status_code == 404, (
+            f"{where} -> {response.status_code}: {response.text[:200]}"
+        )
         assert_no_firm_a_data(response.text, where)
         checked_get += method == "GET"
         checked_post += method != "GET"
@@ -350,14 +354,20 @@ def test_state_changing_routes_need_the_csrf_token(app, client: TestClient, othe
     routes = _state_changing(app)
     for name, token in variants.items():
         full = name in ("missing", "wrong")  # the others on a sample (the same comparison)
-        for method, path, route in routes if full else [r for r in routes if (r[0], r[1]) in SAMPLE]:
+        for method, path, route in (
+            routes if full else [r for r in routes if (r[0], r[1]) in SAMPLE]
+        ):
             form = _form_for(route)
             if token is not None:
                 form["data"] = {**form["data"], "csrf_token": token}
             response = client.request(method, _fill(path, values), follow_redirects=False, **form)
             where = f"{name} token: {method} {path}"
             assert response.status_code == 403, f"{where} -> {response.status_code}"
-            assert ("CSRF" in response.text) if path.startswith("/api/") else ("Not sent" in response.text)
+            assert (
+                ("CSRF" in response.text)
+                if path.startswith("/api/")
+                else ("Not sent" in response.text)
+            )
             checked += 1
     assert checked >= 2 * 15 + len(variants) - 2
     # JSON routes say so in JSON, the header is checked as well as the field

@@ -34,12 +34,16 @@ def test_session_round_trip_and_fresh_nonce_per_sign_in() -> None:
     value = security.issue_session(SECRET, user_id=7, session_version=3)
     data = security.read_session(SECRET, value)
     assert data is not None and (data.user_id, data.session_version) == (7, 3)
-    again = security.read_session(SECRET, security.issue_session(SECRET, user_id=7, session_version=3))
+    again = security.read_session(
+        SECRET, security.issue_session(SECRET, user_id=7, session_version=3)
+    )
     assert again is not None and again.nonce != data.nonce
     # the CSRF token changes with each sign-in and with the session version...
     token = security.csrf_for_session(SECRET, data)
     assert token != security.csrf_for_session(SECRET, again)
-    bumped = security.read_session(SECRET, security.issue_session(SECRET, user_id=7, session_version=4, nonce=data.nonce))
+    bumped = security.read_session(
+        SECRET, security.issue_session(SECRET, user_id=7, session_version=4, nonce=data.nonce)
+    )
     assert bumped is not None and security.csrf_for_session(SECRET, bumped) != token
     # ...but not when the cookie is re-signed (open pages keep working)
     refreshed = security.read_session(SECRET, security.refresh_session(SECRET, data))

@@ -102,3 +102,32 @@ def test_compare_page_links_each_package_to_its_quote(app, client: TestClient) -
     assert f'href="/houses/{house_id}/quote/attic-and-air"' in page
     assert f'href="/houses/{house_id}/quote/whole-house"' in page
     assert "/quote/your-selection" not in page
+
+
+def test_pipe_insulation_quote_priced_per_length(app, client: TestClient) -> None:  # type: ignore[no-untyped-def]
+    from server.services import houses as svc
+    from server.services import price_book as book
+    from server.services import upgrades as ups
+
+    house_id = demo_house_for(app, signed_in_org(app, client))
+    with app.state.session_factory() as s:
+        house = s.get(House, house_id)
+        run = svc.add_pipe_run(session=s, house=house, name="Basement hot water", length=40.0,  # type: ignore[arg-type]
+                               pipe={"pipe_outer_diameter": 0.875, "layers": [],
+                                     "fluid_temperature": 130.0, "ambient_temperature": 60.0},
+                               hours_per_year=3000.0, expected_version=None)  # fmt: skip
+        up = ups.add_pipe_insulation(session=s, house=house, surface=run, name="Pipe sleeves",  # type: ignore[arg-type]
+                                     thickness=0.75, conductivity=0.25, expected_version=None)  # fmt: skip
+        item = book.add_item(session=s, organization_id=house.organization_id, name="Sleeves",  # type: ignore[union-attr]
+                             upgrade_type="pipe_insulation", basis="per_length", units="si",
+                             unit_cost=10.0, fixed_cost=40.0)  # fmt: skip
+        up.document = book.apply_price_item(up.document, item, units="ip")
+        package = ups.add_package(session=s, house=house, name="Pipes only",  # type: ignore[arg-type]
+                                  upgrade_slugs=[up.slug], expected_version=None)  # fmt: skip
+        s.commit()
+        slug = package.slug
+    html = client.get(f"/houses/{house_id}/quote/{slug}").text
+    # 40 + $10/m × (40 ft × 0.3048 m/ft = 12.192 m) = 40 + 121.92 = $161.92 -> "$162"
+    assert _dd(html, "total-installed") == "$162"
+    assert "40 ft" in html and "Keep pipe insulation clear of flue pipes" in html
+    assert "Priced from the price book: Sleeves, $3.05 per ft + $40 fixed" in html  # 10 × 0.3048

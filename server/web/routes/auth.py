@@ -8,9 +8,9 @@ from fastapi import APIRouter, Depends, Form, Request
 from fastapi.responses import RedirectResponse, Response
 from sqlalchemy.orm import Session
 
+from server import security
 from server.errors import InputError
 from server.models import User
-from server import security
 from server.security import (
     SESSION_COOKIE,
     expired_cookie_header,

@@ -61,9 +61,11 @@ def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-unty
     catalog = catalog_for(session=session, organization_id=org.id)
     rows, total_ua = svc.surface_rows(house, catalog)
     from server.web.routes.house_settings import settings_context
+    from server.web.routes.sharing import share_context
 
     return {
         **settings_context(house),
+        **share_context(session=session, organization_id=org.id, house=house),
         "house": house,
         "rows": rows,
         "total_ua": total_ua,
