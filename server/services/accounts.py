@@ -199,12 +199,22 @@ def authenticate(*, session: Session, email: str, password: str, client: str) ->
     return user
 
 
-def user_for_session(*, session: Session, user_id: int, session_version: int) -> User | None:
-    """The user a session cookie names, if still active and the session not revoked."""
-    user = session.get(User, user_id)
-    if user is None or not user.is_active or user.session_version != session_version:
+def user_for_session(
+    *, session: Session, user_id: int, session_version: int
+) -> tuple[User, Organization] | None:
+    """The user a session cookie names and their firm (one query), if the user is still active
+    and the session not revoked; else None."""
+    row = session.execute(
+        select(User, Organization)
+        .join(Organization, Organization.id == User.organization_id)
+        .where(User.id == user_id)
+    ).first()
+    if row is None:
         return None
-    return user
+    user, org = row
+    if not user.is_active or user.session_version != session_version:
+        return None
+    return user, org
 
 
 def organization_of(*, session: Session, user: User) -> Organization:

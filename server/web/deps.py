@@ -93,11 +93,13 @@ def get_current_user(request: Request, session: SessionDep) -> User | None:
     if cached is not _UNSET:
         return cached if isinstance(cached, User) else None
     data = getattr(request.state, "session_data", None)
-    user = None
+    found = None
     if data is not None:
-        user = accounts.user_for_session(
+        found = accounts.user_for_session(
             session=session, user_id=data.user_id, session_version=data.session_version
         )
+    user = found[0] if found else None
+    request.state.organization = found[1] if found else None
     request.state.user = user
     request.state.viewer = Viewer.of(user) if user is not None else None
     return user
@@ -123,8 +125,11 @@ def require_admin(user: CurrentUser) -> User:
 AdminUser = Annotated[User, Depends(require_admin)]
 
 
-def get_organization(session: SessionDep, user: CurrentUser) -> Organization:
+def get_organization(request: Request, session: SessionDep, user: CurrentUser) -> Organization:
     """The signed-in user's firm: every firm-owned query is filtered on its id."""
+    org = getattr(request.state, "organization", None)
+    if isinstance(org, Organization) and org.id == user.organization_id:
+        return org
     return accounts.organization_of(session=session, user=user)
 
 

@@ -13,6 +13,7 @@ from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
 from server.services.library import catalog_for, list_materials
+from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.editor import run_editor
@@ -68,6 +69,7 @@ def _upgrade_context(session, org, house, upgrade, form=None, result=None, messa
         "typicals": typical_assemblies(), "moisture": None,
         "cautions": cautions_for(kinds, extra_topics=topics),
         "code": code_verdict(house.climate, surface.kind, result) if surface else None,
+        "price_items": list_items(session=session, organization_id=org.id),
     }  # fmt: skip
 
 
