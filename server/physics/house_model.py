@@ -462,8 +462,17 @@ def evaluate_option(
     )
 
 
-def compare(house: House, upgrades: Sequence[Upgrade], packages: Sequence[Package]) -> Comparison:
+def compare(
+    house: House,
+    upgrades: Sequence[Upgrade],
+    packages: Sequence[Package],
+    *,
+    upgrades_alone: bool = True,
+) -> Comparison:
     """The as-found house, every upgrade alone and every package as one modified house.
+
+    With ``upgrades_alone=False`` the single-upgrade houses are skipped (an empty
+    ``upgrades_alone``): a page that shows only the packages saves most of the work.
 
     Raises
     ------
@@ -477,7 +486,11 @@ def compare(house: House, upgrades: Sequence[Upgrade], packages: Sequence[Packag
             raise ValueError(f"two upgrades are called '{upgrade.id}'")
         by_id[upgrade.id] = upgrade
     as_found = evaluate(house)
-    alone = tuple(evaluate_option(house, as_found, u.id, [u]) for u in upgrades)
+    alone = (
+        tuple(evaluate_option(house, as_found, u.id, [u]) for u in upgrades)
+        if upgrades_alone
+        else ()
+    )
     results = []
     for package in packages:
         missing = [name for name in package.upgrade_ids if name not in by_id]

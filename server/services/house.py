@@ -451,10 +451,14 @@ def _fuel(doc: HouseDocument, house: model.House) -> FuelFigures:
     )
 
 
-def compute_house(doc: HouseDocument, *, catalog: Catalog | None = None) -> HouseResult:
+def compute_house(
+    doc: HouseDocument, *, catalog: Catalog | None = None, upgrades_alone: bool = True
+) -> HouseResult:
     """As-found house, each upgrade alone and each package, in ``doc.units``.
 
-    Each distinct assembly is evaluated once by the assembly calculator. Raises
+    Each distinct assembly is evaluated once by the assembly calculator. With
+    ``upgrades_alone=False`` the result lists no single-upgrade options (``upgrades`` is
+    empty; every upgrade is still checked): for pages that show only the packages. Raises
     :class:`InputError` (HTTP 422) naming the field of every problem found.
     """
     build = _Build(units=doc.units, catalog=catalog)
@@ -472,7 +476,7 @@ def compute_house(doc: HouseDocument, *, catalog: Catalog | None = None) -> Hous
     upgrades = [u for u in pure if u is not None]
     packages = [model.Package(p.id, tuple(p.upgrades)) for p in doc.packages]
     try:
-        comparison = model.compare(house, upgrades, packages)
+        comparison = model.compare(house, upgrades, packages, upgrades_alone=upgrades_alone)
     except ValueError as exc:  # _check_ids covers these; a last guard against a 500
         raise InputError("upgrades", str(exc)) from None
     by_id = {u.id: u for u in upgrades}

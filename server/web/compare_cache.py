@@ -23,11 +23,13 @@ from collections import OrderedDict
 from collections.abc import Callable, Hashable
 from typing import Any
 
-from sqlalchemy import event, func, select
+from sqlalchemy import bindparam, event, func, select
 from sqlalchemy.orm import Session, object_session
+from sqlalchemy.orm.util import identity_key
 
 from server.models import House, Package, PriceBookItem, Surface, Upgrade, utcnow
 from server.services.catalog import Catalog, builtin_catalog
+from server.services.houses import MAX_ID, NotFound
 
 #: total weight kept: one unit is one surface row of one option (about 1.4 kB measured for
 #: the large house: 12 MB for 207 options x 41 rows), so about 60 MB per process at most
@@ -102,17 +104,28 @@ def _catalog_key(catalog: Catalog) -> Hashable:
     return frozenset(catalog.items())
 
 
+_PRICE_BOOK_STAMP = select(
+    func.count(PriceBookItem.id), func.max(PriceBookItem.id), func.max(PriceBookItem.updated_at)
+).where(PriceBookItem.organization_id == bindparam("organization_id"))
+
+
 def _price_book_stamp(session: Session | None, organization_id: int) -> Hashable:
+    """(count, newest id, latest update) of the firm's price book: any edit changes it."""
     if session is None:
         return None
-    row = session.execute(
-        select(
-            func.count(PriceBookItem.id),
-            func.max(PriceBookItem.id),
-            func.max(PriceBookItem.updated_at),
-        ).where(PriceBookItem.organization_id == organization_id)
-    ).one()
-    return tuple(row)
+    return tuple(session.execute(_PRICE_BOOK_STAMP, {"organization_id": organization_id}).one())
+
+
+def house_row(*, session: Session, organization_id: int, house_id: int) -> House:
+    """The firm's house without its children (they load lazily, only on a miss)."""
+    if not 0 < house_id <= MAX_ID:
+        raise NotFound
+    house = session.scalars(
+        select(House).where(House.id == house_id, House.organization_id == organization_id)
+    ).first()
+    if house is None:
+        raise NotFound
+    return house
 
 
 def cached_compare_context(
@@ -138,11 +151,21 @@ def cached_compare_context(
 @event.listens_for(Session, "before_flush")
 def _touch_changed_houses(session: Session, _context: Any, _instances: Any) -> None:
     """A change to a surface, upgrade or package is a change to its house (new version)."""
-    for item in (*session.new, *session.dirty, *session.deleted):
-        if not isinstance(item, (Surface, Upgrade, Package)):
-            continue
-        house = item.__dict__.get("house")  # only when loaded: never a query from here
-        if house is None or house in session.new or house in session.deleted:
-            continue
-        if house not in session.dirty:
+    changed = [
+        item
+        for item in (*session.new, *session.dirty, *session.deleted)
+        if isinstance(item, (Surface, Upgrade, Package))
+    ]
+    if not changed:
+        return
+    skip = {id(h) for h in (*session.new, *session.dirty, *session.deleted) if isinstance(h, House)}
+    for item in changed:
+        house = item.__dict__.get("house")  # loaded already, or in the session, or one lookup
+        if house is None and item.house_id is not None:
+            house = session.identity_map.get(identity_key(House, item.house_id))
+            if house is None:
+                with session.no_autoflush:
+                    house = session.get(House, item.house_id)
+        if house is not None and id(house) not in skip:
             house.updated_at = utcnow()
+            skip.add(id(house))

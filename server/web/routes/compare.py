@@ -5,22 +5,28 @@ from __future__ import annotations
 from fastapi import APIRouter, Query, Request
 
 from server.errors import InputError
-from server.services import houses as svc
 from server.services.cautions import GENERAL, cautions_for
 from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 from server.web.charts import bar_chart, cash_flow_chart
+from server.web.compare_cache import cached_compare_context, house_row
 from server.web.deps import OrgDep, SessionDep, render
 
 router = APIRouter()
 
 
 def compare_context(house, catalog, chosen: list[str]) -> dict:  # type: ignore[no-untyped-def]
-    """Everything the compare page (and the homeowner's view) shows."""
+    """Everything the compare page (and the homeowner's view) shows, computed once per
+    version of the house (see :mod:`server.web.compare_cache`)."""
+    return cached_compare_context(house, catalog, chosen, build_compare_context)
+
+
+def build_compare_context(house, catalog, chosen: list[str]) -> dict:  # type: ignore[no-untyped-def]
+    """The compare context computed afresh (values must depend only on the cache's key)."""
     try:
         doc = house_document(house, extra_package=chosen)
-        result = compute_house(doc, catalog=catalog)
+        result = compute_house(doc, catalog=catalog, upgrades_alone=False)  # packages only
     except InputError as exc:
         return {"house": house, "error": f"{exc.field}: {exc.message}", "result": None}
     ua_unit = "Btu/(h·°F)" if house.units == "ip" else "W/K"
@@ -68,7 +74,8 @@ def compare_page(  # type: ignore[no-untyped-def]
     house_id: int,
     pick: list[str] = Query(default=[]),
 ):
-    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    # The house row alone: its surfaces, upgrades and packages load only when not kept.
+    house = house_row(session=session, organization_id=org.id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=org.id)
     context = compare_context(house, catalog, pick)
     template = (
