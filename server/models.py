@@ -191,7 +191,9 @@ class LoginAttempt(Base):
     email: Mapped[str] = mapped_column(String(254), index=True)
     client: Mapped[str] = mapped_column(String(64), index=True)
     succeeded: Mapped[bool] = mapped_column(Boolean, default=False)
-    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow, index=True)
+    created_at: Mapped[datetime] = mapped_column(
+        DateTime(timezone=True), default=utcnow, index=True
+    )
 
 
 class ShareLink(Base):
@@ -232,4 +234,31 @@ class PriceBookItem(Base):
     unit_cost: Mapped[float] = mapped_column(Float, default=0.0)
     fixed_cost: Mapped[float] = mapped_column(Float, default=0.0)
     notes: Mapped[str] = mapped_column(Text, default="")
-    updated_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow, onupdate=utcnow)
+    updated_at: Mapped[datetime] = mapped_column(
+        DateTime(timezone=True), default=utcnow, onupdate=utcnow
+    )
+
+
+class CodeTargetRow(Base):
+    """A firm's own row of the code-target table; it replaces the packaged row of its zone/kind."""
+
+    __tablename__ = "code_targets"
+    __table_args__ = (
+        UniqueConstraint(
+            "organization_id", "climate_zone", "surface_kind", name="uq_code_targets_org_zone_kind"
+        ),
+    )
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    organization_id: Mapped[int] = mapped_column(
+        ForeignKey("organizations.id", ondelete="CASCADE"), index=True
+    )
+    climate_zone: Mapped[int] = mapped_column(Integer)
+    surface_kind: Mapped[str] = mapped_column(String(40))
+    r_min_ip: Mapped[float | None] = mapped_column(Float)
+    u_max_ip: Mapped[float | None] = mapped_column(Float)
+    note: Mapped[str] = mapped_column(Text, default="")
+    edition: Mapped[str] = mapped_column(String(300))
+    updated_at: Mapped[datetime] = mapped_column(
+        DateTime(timezone=True), default=utcnow, onupdate=utcnow
+    )

@@ -57,7 +57,7 @@ PG_URL = os.environ.get("WARMSTEAD_TEST_POSTGRES_URL", "postgresql://postgres@12
 #: one schema per test run, so two runs on one server never trample each other
 PG_SCHEMA = f"warmstead_test_{os.getpid()}"
 TABLES_CHILD_FIRST = [
-    "share_links", "price_book_items", "login_attempts", "packages", "upgrades", "surfaces",
+    "code_targets", "share_links", "price_book_items", "login_attempts", "packages", "upgrades", "surfaces",
     "houses", "users", "organizations",
 ]  # fmt: skip
 

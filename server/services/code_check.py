@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 from server.documents.assembly import AssemblyResult
-from server.physics.code_targets import CodeVerdict, check, target_for
+from server.physics.code_targets import CodeTarget, CodeVerdict, check, target_for
 from server.services.code_target_data import load_code_targets
 
 
@@ -17,14 +17,20 @@ def house_climate_zone(climate: dict[str, Any] | None) -> str | None:
 
 
 def code_verdict(
-    climate: dict[str, Any] | None, kind: str, result: AssemblyResult | None
+    climate: dict[str, Any] | None,
+    kind: str,
+    result: AssemblyResult | None,
+    rows: tuple[CodeTarget, ...] | None = None,
 ) -> CodeVerdict | None:
-    """How an assembly compares with the prescriptive target for its kind and zone, or None."""
+    """How an assembly compares with the prescriptive target for its kind and zone, or None.
+
+    ``rows`` is the firm's table (server.services.firm_code_targets.rows_for); default packaged.
+    """
     zone = house_climate_zone(climate)
     if zone is None or result is None:
         return None
     try:
-        target = target_for(load_code_targets(), zone, kind)
+        target = target_for(rows if rows is not None else load_code_targets(), zone, kind)
     except ValueError:
         return None
     if target is None:

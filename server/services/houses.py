@@ -255,7 +255,7 @@ class SurfaceRow:
     code: Any = None  # CodeVerdict of the prescriptive target, when the zone is known
 
 
-def surface_rows(house: House, catalog: Catalog) -> tuple[list[SurfaceRow], float]:
+def surface_rows(house: House, catalog: Catalog, targets: Any = None) -> tuple[list[SurfaceRow], float]:
     """Each surface with its R, U, UA (U × area) and share of the envelope UA."""
     rows: list[SurfaceRow] = []
     for surface in house.surfaces:
@@ -270,7 +270,7 @@ def surface_rows(house: House, catalog: Catalog) -> tuple[list[SurfaceRow], floa
         except (InputError, ValueError) as exc:
             rows.append(SurfaceRow(surface, None, None, None, str(exc)))
             continue
-        verdict = code_verdict(house.climate, surface.kind, result)
+        verdict = code_verdict(house.climate, surface.kind, result, targets)
         rows.append(SurfaceRow(surface, result, result.u_factor * surface.area, None, None, verdict))
     total = sum(r.ua or 0.0 for r in rows)
     for row in rows:

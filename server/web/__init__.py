@@ -4,6 +4,7 @@ from fastapi import APIRouter
 
 from server.web.routes import (
     auth,
+    code_targets,
     compare,
     house_settings,
     houses,
@@ -19,5 +20,5 @@ from server.web.routes import (
 
 web_router = APIRouter(include_in_schema=False)
 for module in (auth, houses, house_settings, surfaces, pipe_runs, upgrades, compare, library, tools, sharing,
-               price_book, quote):  # fmt: skip
+               price_book, quote, code_targets):  # fmt: skip
     web_router.include_router(module.router)

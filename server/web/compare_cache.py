@@ -104,27 +104,43 @@ def _catalog_key(catalog: Catalog) -> Hashable:
     return frozenset(catalog.items())
 
 
-_PRICE_BOOK_STAMP = select(
-    func.count(PriceBookItem.id), func.max(PriceBookItem.id), func.max(PriceBookItem.updated_at)
-).where(PriceBookItem.organization_id == bindparam("organization_id"))
+def _stamp_columns(organization_id: Any) -> list[Any]:
+    """(count, newest id, latest update) of the firm's price book: any edit changes it."""
+    where = PriceBookItem.organization_id == organization_id
+    return [
+        select(func.count(PriceBookItem.id)).where(where).scalar_subquery(),
+        select(func.max(PriceBookItem.id)).where(where).scalar_subquery(),
+        select(func.max(PriceBookItem.updated_at)).where(where).scalar_subquery(),
+    ]
+
+
+_STAMP_KEY = "warmstead.price_book_stamp"
+_PRICE_BOOK_STAMP = select(*_stamp_columns(bindparam("organization_id")))
 
 
 def _price_book_stamp(session: Session | None, organization_id: int) -> Hashable:
-    """(count, newest id, latest update) of the firm's price book: any edit changes it."""
     if session is None:
         return None
+    known = session.info.get(_STAMP_KEY, {})
+    if organization_id in known:
+        return known[organization_id]  # read with the house row, in this same request
     return tuple(session.execute(_PRICE_BOOK_STAMP, {"organization_id": organization_id}).one())
 
 
 def house_row(*, session: Session, organization_id: int, house_id: int) -> House:
-    """The firm's house without its children (they load lazily, only on a miss)."""
+    """The firm's house without its children (they load lazily, only on a miss), read in one
+    statement with the firm's price-book stamp."""
     if not 0 < house_id <= MAX_ID:
         raise NotFound
-    house = session.scalars(
-        select(House).where(House.id == house_id, House.organization_id == organization_id)
+    row = session.execute(
+        select(House, *_stamp_columns(House.organization_id)).where(
+            House.id == house_id, House.organization_id == organization_id
+        )
     ).first()
-    if house is None:
+    if row is None:
         raise NotFound
+    house, *stamp = row
+    session.info.setdefault(_STAMP_KEY, {})[organization_id] = tuple(stamp)
     return house
 
 

@@ -59,7 +59,9 @@ def create_house(  # type: ignore[no-untyped-def]
 def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=org.id)
-    rows, total_ua = svc.surface_rows(house, catalog)
+    from server.services.firm_code_targets import rows_for
+
+    rows, total_ua = svc.surface_rows(house, catalog, rows_for(session=session, organization_id=org.id))
     from server.web.routes.house_settings import settings_context
     from server.web.routes.sharing import share_context
 

@@ -11,6 +11,7 @@ from server.services import houses as svc
 from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
+from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
@@ -46,7 +47,7 @@ def _context(session, org, house, surface, form: AssemblyForm, result, message: 
     catalog = catalog_for(session=session, organization_id=org.id)
     return {
         "moisture": None if form.has_errors else _moisture(house, surface, result, catalog),
-        "code": code_verdict(house.climate, surface.kind, result),
+        "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=org.id)),
         "cautions": cautions_for([surface.kind]),
         "house": house,
         "surface": surface,

@@ -12,6 +12,7 @@ from server.services import upgrades as upg
 from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
+from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
@@ -68,7 +69,7 @@ def _upgrade_context(session, org, house, upgrade, form=None, result=None, messa
         "materials": list_materials(session=session, organization_id=org.id),
         "typicals": typical_assemblies(), "moisture": None,
         "cautions": cautions_for(kinds, extra_topics=topics),
-        "code": code_verdict(house.climate, surface.kind, result) if surface else None,
+        "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=org.id)) if surface else None,
         "price_items": list_items(session=session, organization_id=org.id),
     }  # fmt: skip
 
