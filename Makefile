@@ -44,7 +44,10 @@ test: $(STAMP) browser
 	$(BIN)/ruff check server tests scripts
 	$(BIN)/python -m pytest
 
+## make bench: loopback load test (compare page, calc/house, a bare page of the same size) and
+## the weather-file reader timing; not part of make test (about two minutes)
 bench: $(STAMP)
+	$(BIN)/python scripts/bench_load.py
 	$(BIN)/python scripts/bench_weather.py
 
 clean:

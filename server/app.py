@@ -7,6 +7,7 @@ from urllib.parse import urlencode
 from fastapi import Depends, FastAPI, Request
 from fastapi.responses import HTMLResponse, JSONResponse, RedirectResponse, Response
 from fastapi.staticfiles import StaticFiles
+from sqlalchemy.exc import DataError
 from starlette.datastructures import MutableHeaders
 from starlette.middleware.gzip import GZipMiddleware
 from starlette.requests import cookie_parser
@@ -170,6 +171,16 @@ def create_app(settings: Settings | None = None) -> FastAPI:
             return JSONResponse({"detail": "not found", "errors": []}, status_code=404)
         html = app.state.templates.get_template("pages/not_found.html").render(request=request)
         return HTMLResponse(html, status_code=404)
+
+    # An id beyond the database's integer range cannot name a row: answer 404, never 500
+    # (SQLite raises OverflowError binding it, PostgreSQL a DataError "integer out of range").
+    @app.exception_handler(OverflowError)
+    async def _overflow(request: Request, exc: OverflowError):  # type: ignore[no-untyped-def]
+        return await _not_found(request, NotFound())
+
+    @app.exception_handler(DataError)
+    async def _data_error(request: Request, exc: DataError):  # type: ignore[no-untyped-def]
+        return await _not_found(request, NotFound())
 
     @app.get("/healthz", include_in_schema=False)
     def healthz() -> dict[str, str]:

@@ -255,7 +255,9 @@ class SurfaceRow:
     code: Any = None  # CodeVerdict of the prescriptive target, when the zone is known
 
 
-def surface_rows(house: House, catalog: Catalog, targets: Any = None) -> tuple[list[SurfaceRow], float]:
+def surface_rows(
+    house: House, catalog: Catalog, targets: Any = None
+) -> tuple[list[SurfaceRow], float]:
     """Each surface with its R, U, UA (U × area) and share of the envelope UA."""
     rows: list[SurfaceRow] = []
     for surface in house.surfaces:
@@ -271,7 +273,9 @@ def surface_rows(house: House, catalog: Catalog, targets: Any = None) -> tuple[l
             rows.append(SurfaceRow(surface, None, None, None, str(exc)))
             continue
         verdict = code_verdict(house.climate, surface.kind, result, targets)
-        rows.append(SurfaceRow(surface, result, result.u_factor * surface.area, None, None, verdict))
+        rows.append(
+            SurfaceRow(surface, result, result.u_factor * surface.area, None, None, verdict)
+        )
     total = sum(r.ua or 0.0 for r in rows)
     for row in rows:
         if row.ua is not None and total > 0:

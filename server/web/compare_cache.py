@@ -1,19 +1,29 @@
-"""Computed compare-page contexts, kept in this process's memory per version of the house.
+"""Computed compare pages, kept in this process's memory per state of the house.
 
-Computing a large house (40 surfaces, 200 upgrades, 6 packages) takes of the order of 100 ms of
-CPU, while showing it again takes a few: so the compare page and the homeowner's view keep the
-computed context (``compare_context`` minus the house row itself) keyed on everything the
-figures depend on, read fresh from the database on every request:
+Computing the large test house (40 surfaces, 200 upgrades, 6 packages) takes tens to hundreds
+of milliseconds of CPU and rendering its body a few more, while looking up that nothing changed
+takes one statement. So the compare page and the homeowner's view keep the computed context
+(``compare_context`` without the house row) and the rendered compare body, keyed on everything
+they depend on, read fresh from the database on every request:
 
-* the house row's ``id``, ``version`` and ``updated_at`` (every change to the house, its
-  surfaces, upgrades or packages bumps them: the services call ``touch(house)``, and the
-  flush hook below does it for any change that forgot to);
+* the house row's ``id``, ``version`` and ``updated_at``: every change to the house, its
+  surfaces, upgrades or packages bumps them (the services call ``touch(house)``; the flush
+  hook at the end of this module does it for a change that forgot to);
 * the chosen upgrades (``pick``), in order;
 * the firm's material catalog (its content);
-* a stamp of the firm's price book (count, newest id, latest update), one small query.
+* a stamp of the firm's price book (count, newest id, latest update), read in the same
+  statement as the house row.
 
-Several app processes on one database stay right: each keeps its own entries, and the key comes
-from the shared database. Memory is bounded by a weight (result rows kept), not just a count.
+Anything else a compare figure comes to depend on (say, the firm's own code-target table) must
+join the key in :func:`cached_compare_context`, or the page shows the old figure.
+
+The body fragment is shared by every viewer of that state, so it is rendered without the
+request (:class:`SharedRender` fails loudly if the template reaches for one); the page around
+it, with the viewer's name and CSRF token, is rendered for each request.
+
+Several app processes on one database stay right: each keeps its own entries and the key comes
+from the shared database. Memory is bounded by an estimate of the bytes kept (MAX_WEIGHT_KB),
+not just a count of entries.
 """
 
 from __future__ import annotations
@@ -21,8 +31,10 @@ from __future__ import annotations
 import threading
 from collections import OrderedDict
 from collections.abc import Callable, Hashable
+from dataclasses import dataclass
 from typing import Any
 
+from markupsafe import Markup
 from sqlalchemy import bindparam, event, func, select
 from sqlalchemy.orm import Session, object_session
 from sqlalchemy.orm.util import identity_key
@@ -31,10 +43,12 @@ from server.models import House, Package, PriceBookItem, Surface, Upgrade, utcno
 from server.services.catalog import Catalog, builtin_catalog
 from server.services.houses import MAX_ID, NotFound
 
-#: total weight kept: one unit is one surface row of one option (about 1.4 kB measured for
-#: the large house: 12 MB for 207 options x 41 rows), so about 60 MB per process at most
-MAX_WEIGHT = 40_000
+#: memory kept per process [kB], estimated per entry by :func:`_weight_kb` (measured with
+#: tracemalloc: 0.8 MB for the 40-surface house with 6 packages and a selection)
+MAX_WEIGHT_KB = 64_000
 MAX_ENTRIES = 256
+#: contexts computed at once per process (more only share the CPU and multiply the memory)
+_BUILDS = threading.BoundedSemaphore(2)
 
 Builder = Callable[[Any, Catalog, list[str]], dict[str, Any]]
 
@@ -68,7 +82,8 @@ class _Cache:
                     break
             waiting.wait(timeout=60)
         try:
-            value = build()
+            with _BUILDS:  # a few at a time: same throughput under the GIL, far less memory
+                value = build()
             self._put(key, value)
             return value
         finally:
@@ -76,13 +91,13 @@ class _Cache:
                 self._building.pop(key).set()
 
     def _put(self, key: Hashable, value: dict[str, Any]) -> None:
-        weight = _weight(value)
-        if weight > MAX_WEIGHT:
+        weight = _weight_kb(value)
+        if weight > MAX_WEIGHT_KB:
             return
         with self._lock:
             self._entries[key] = (value, weight)
             self._weight += weight
-            while self._weight > MAX_WEIGHT or len(self._entries) > MAX_ENTRIES:
+            while self._weight > MAX_WEIGHT_KB or len(self._entries) > MAX_ENTRIES:
                 _old, (_value, old_weight) = self._entries.popitem(last=False)
                 self._weight -= old_weight
 
@@ -90,12 +105,13 @@ class _Cache:
 CACHE = _Cache()
 
 
-def _weight(context: dict[str, Any]) -> int:
+def _weight_kb(context: dict[str, Any]) -> int:
+    """About 1.4 kB per surface row of each option kept, plus ~150 kB of rendered HTML."""
     result = context.get("result")
     if result is None:
         return 1
     options = 1 + len(result.packages) + len(result.upgrades)
-    return options * (len(result.as_found.surfaces) + 1)
+    return int(1.4 * options * (len(result.as_found.surfaces) + 1)) + 150
 
 
 def _catalog_key(catalog: Catalog) -> Hashable:
@@ -144,10 +160,61 @@ def house_row(*, session: Session, organization_id: int, house_id: int) -> House
     return house
 
 
+@dataclass(frozen=True, slots=True)
+class UpgradeView:
+    """The columns of an upgrade row a kept page may show (never its session or house)."""
+
+    id: int
+    slug: str
+    name: str
+    kind: str
+    surface_id: int | None
+    position: int
+
+    @classmethod
+    def of(cls, upgrade: Upgrade) -> UpgradeView:
+        return cls(upgrade.id, upgrade.slug, upgrade.name, upgrade.kind, upgrade.surface_id,
+                   upgrade.position)  # fmt: skip
+
+
+class SharedRender:
+    """Stands in for ``request`` while a fragment kept for every viewer is rendered: any use
+    of it fails loudly instead of baking one viewer's CSRF token or name into the copy."""
+
+    def __getattr__(self, name: str) -> Any:
+        raise RuntimeError(
+            f"{FRAGMENT} is rendered once per state of the house and shown to every viewer: "
+            f"it must not read the request (request.{name}); put per-viewer parts such as CSRF "
+            "fields or the user's name in pages/compare.html instead"
+        )
+
+    def __bool__(self) -> bool:
+        raise RuntimeError(f"{FRAGMENT} must not test the request (it is shared by viewers)")
+
+
+FRAGMENT = "partials/compare_body.html"
+
+
+def fragment_html(context: dict[str, Any], environment: Any, *, is_htmx: bool) -> Markup:
+    """The compare body rendered from a kept context, once per state and kept with it
+    (at most ``MAX_ENTRIES`` x 2 copies of ~60 kB for the largest houses)."""
+    kept: dict[str, Any] = context["_kept"]
+    html = kept.setdefault("_fragments", {}).get(is_htmx)
+    if html is None:
+        values = {k: v for k, v in context.items() if not k.startswith("_")}
+        template = environment.get_template(FRAGMENT)
+        html = Markup(template.render(values, request=SharedRender(), is_htmx=is_htmx))
+        kept["_fragments"][is_htmx] = html  # kept: the next viewer of this state gets it too
+    return html  # type: ignore[no-any-return]
+
+
 def cached_compare_context(
     house: House, catalog: Catalog, chosen: list[str], build: Builder
 ) -> dict[str, Any]:
-    """``build(house, catalog, chosen)``, or the copy kept for this very state of the house."""
+    """``build(house, catalog, chosen)``, or the copy kept for this very state of the house.
+
+    The copy shares one dict with the cache (key ``"_kept"``) so that :func:`fragment_html`
+    can keep the rendered body with it."""
     session = object_session(house)
     key = (
         house.id,
@@ -159,9 +226,13 @@ def cached_compare_context(
     )
 
     def compute() -> dict[str, Any]:
-        return {k: v for k, v in build(house, catalog, chosen).items() if k != "house"}
+        kept = {k: v for k, v in build(house, catalog, chosen).items() if k != "house"}
+        if "upgrades" in kept:  # not the ORM rows: they hold their whole session's objects
+            kept["upgrades"] = [UpgradeView.of(u) for u in kept["upgrades"]]
+        return kept
 
-    return {**CACHE.get_or_build(key, compute), "house": house}
+    kept = CACHE.get_or_build(key, compute)
+    return {**kept, "house": house, "_kept": kept}
 
 
 @event.listens_for(Session, "before_flush")

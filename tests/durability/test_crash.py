@@ -90,6 +90,9 @@ def test_acknowledged_saves_survive_sigkill_mid_burst(tmp_path: Path) -> None:
     _org, headers = signed_in_headers_for_url(url, secret, email="crash@example.com")
     env = server_env(url, secret)
     server = start_server(env)
+    # The server runs on uvloop and httptools (see ../shared/STYLE.md, habit 10).
+    maps = Path(f"/proc/{server.process.pid}/maps").read_text()
+    assert "uvloop" in maps and "httptools" in maps
 
     lock = threading.Lock()
     enough = threading.Event()

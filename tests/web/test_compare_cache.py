@@ -123,7 +123,7 @@ def test_each_selection_is_its_own_entry(viewer: Any) -> None:
 
 
 def test_memory_stays_bounded(monkeypatch: pytest.MonkeyPatch) -> None:
-    monkeypatch.setattr(compare_cache, "MAX_WEIGHT", 3)
+    monkeypatch.setattr(compare_cache, "MAX_WEIGHT_KB", 3)
     cache = _Cache()
     for key in range(10):
         cache.get_or_build(key, lambda: {"result": None})  # weight 1 each
@@ -140,3 +140,18 @@ def test_another_firms_materials_are_a_different_key() -> None:
     own["firm-foam"] = MaterialSpec("firm-foam", "Firm foam", "conductivity", 0.03, None)
     assert compare_cache._catalog_key(builtin_catalog()) == "built-in"
     assert compare_cache._catalog_key(own) != compare_cache._catalog_key(dict(builtin_catalog()))
+
+
+def test_skipping_the_single_upgrade_options_leaves_the_packages_unchanged() -> None:
+    # The compare page asks compute_house for packages only (upgrades_alone=False): every
+    # package figure must be the same as in the full comparison, and the warnings too.
+    from server.services.catalog import builtin_catalog
+    from server.services.house import compute_house
+
+    doc = HouseDocument.model_validate(big_house_document(surfaces=6, upgrades_per_surface=3))
+    full = compute_house(doc, catalog=builtin_catalog())
+    packages_only = compute_house(doc, catalog=builtin_catalog(), upgrades_alone=False)
+    assert len(full.upgrades) == 18 and packages_only.upgrades == []
+    assert packages_only.packages == full.packages
+    assert packages_only.as_found == full.as_found
+    assert packages_only.warnings == full.warnings

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Query, Request
+from fastapi.responses import HTMLResponse
 
 from server.errors import InputError
 from server.services.cautions import GENERAL, cautions_for
@@ -10,7 +11,7 @@ from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 from server.web.charts import bar_chart, cash_flow_chart
-from server.web.compare_cache import cached_compare_context, house_row
+from server.web.compare_cache import cached_compare_context, fragment_html, house_row
 from server.web.deps import OrgDep, SessionDep, render
 
 router = APIRouter()
@@ -78,7 +79,10 @@ def compare_page(  # type: ignore[no-untyped-def]
     house = house_row(session=session, organization_id=org.id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=org.id)
     context = compare_context(house, catalog, pick)
-    template = (
-        "partials/compare_body.html" if request.headers.get("HX-Request") else "pages/compare.html"
-    )
-    return render(request, template, context)
+    # The body is rendered once per state of the house and kept (it reads nothing of the
+    # viewer); the page around it, with the viewer's name and CSRF token, is rendered each time.
+    is_htmx = request.headers.get("HX-Request") == "true"
+    body = fragment_html(context, request.app.state.templates.env, is_htmx=is_htmx)
+    if request.headers.get("HX-Request"):
+        return HTMLResponse(body)
+    return render(request, "pages/compare.html", {**context, "compare_body_html": body})
