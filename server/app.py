@@ -147,7 +147,11 @@ def _install_security_handlers(app: FastAPI) -> None:
 def create_app(settings: Settings | None = None) -> FastAPI:
     """Build the app for ``settings``. Creates the engine lazily-connecting; never migrates."""
     settings = settings or get_settings()
+    # No /docs or /redoc pages: they load script from a CDN and run inline script, which the
+    # CSP forbids; the schema itself is served at /openapi.json.
     app = FastAPI(
+        docs_url=None,
+        redoc_url=None,
         title="Warmstead",
         version="0.1.0",
         summary="Compare insulation upgrades on a house.",
