@@ -147,8 +147,9 @@ def touch(house: House) -> None:
     house.updated_at = utcnow()
 
 
-def _slug(text: str, taken: set[str]) -> str:
-    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or "surface"
+def unique_slug(text: str, taken: set[str], fallback: str = "surface") -> str:
+    """A lower-case-hyphen id for ``text`` not in ``taken`` (``name``, ``name-2``, ...)."""
+    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or fallback
     slug, n = base, 2
     while slug in taken:
         slug, n = f"{base}-{n}", n + 1
@@ -189,7 +190,7 @@ def add_surface(
     surface = Surface(
         house=house,
         position=len(house.surfaces),
-        slug=_slug(name, {s.slug for s in house.surfaces}),
+        slug=unique_slug(name, {s.slug for s in house.surfaces}),
         name=name[:200],
         kind=kind,
         area=area,
@@ -340,7 +341,7 @@ def add_pipe_run(
         raise InputError(where, str(err["msg"]).removeprefix("Value error, ")) from None
     name = name.strip() or "Pipe run"
     surface = Surface(
-        house=house, position=len(house.surfaces), slug=_slug(name, {s.slug for s in house.surfaces}),
+        house=house, position=len(house.surfaces), slug=unique_slug(name, {s.slug for s in house.surfaces}),
         name=name[:200], kind="pipe_run", area=length, assembly={},
         details={"pipe": spec, "hours_per_year": hours_per_year},
     )  # fmt: skip

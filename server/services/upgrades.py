@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import copy
-import re
 from typing import Any
 
 from pydantic import ValidationError
@@ -15,16 +14,12 @@ from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
 from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
-from server.services.houses import NotFound, check_version, touch
+from server.services.houses import NotFound, check_version, touch, unique_slug
 from server.services.typical import typical_assemblies
 
 
 def _slug(text: str, taken: set[str]) -> str:
-    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or "upgrade"
-    slug, n = base, 2
-    while slug in taken:
-        slug, n = f"{base}-{n}", n + 1
-    return slug
+    return unique_slug(text, taken, fallback="upgrade")
 
 
 def get_upgrade(house: House, upgrade_id: int) -> Upgrade:
