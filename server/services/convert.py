@@ -103,6 +103,15 @@ def convert_upgrade(document: dict[str, Any], src: Units, dst: Units) -> dict[st
     return out
 
 
+def _degree_day_row(row: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:
+    """One row of a degree-days-by-base table: base temperature, HDD, CDD."""
+    return {
+        "base": _temp(row["base"], src, dst),
+        "hdd": convert_value(row["hdd"], "degree_days", src, dst),
+        "cdd": convert_value(row.get("cdd", 0.0), "degree_days", src, dst),
+    }
+
+
 def convert_climate(climate: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:
     """Degree-days, bases, the balance-point table and the weather file's temperatures."""
     out = dict(climate)
@@ -122,12 +131,7 @@ def convert_climate(climate: dict[str, Any], src: Units, dst: Units) -> dict[str
         out["variable_base"] = {
             "setpoint": _temp(vb["setpoint"], src, dst),
             "internal_gains": vb["internal_gains"] * gains_factor,
-            "table": [
-                {"base": _temp(row["base"], src, dst),
-                 "hdd": convert_value(row["hdd"], "degree_days", src, dst),
-                 "cdd": convert_value(row.get("cdd", 0.0), "degree_days", src, dst)}
-                for row in vb["table"]
-            ],
+            "table": [_degree_day_row(row, src, dst) for row in vb["table"]],
         }  # fmt: skip
     weather = out.get("weather")
     if weather:
@@ -136,10 +140,7 @@ def convert_climate(climate: dict[str, Any], src: Units, dst: Units) -> dict[str
             if weather.get(key) is not None:
                 weather[key] = _temp(weather[key], src, dst)
         weather["degree_days_by_base"] = [
-            {"base": _temp(row["base"], src, dst),
-             "hdd": convert_value(row["hdd"], "degree_days", src, dst),
-             "cdd": convert_value(row["cdd"], "degree_days", src, dst)}
-            for row in weather.get("degree_days_by_base", [])
-        ]  # fmt: skip
+            _degree_day_row(row, src, dst) for row in weather.get("degree_days_by_base", [])
+        ]
         out["weather"] = weather
     return out

@@ -202,6 +202,20 @@ def add_surface(
     return surface
 
 
+def checked_assembly(
+    house: House, assembly: dict[str, Any], *, catalog: Catalog, expected_version: int | None
+) -> tuple[dict[str, Any], AssemblyResult]:
+    """The document to store and its result, for a surface's or an upgrade's assembly.
+
+    Raises :class:`Conflict` for a stale form and InputError when it cannot compute, before
+    anything is changed.
+    """
+    check_version(house, expected_version)
+    doc = AssemblyInput.model_validate(assembly)
+    result = evaluate_assembly(doc, units=house.units, catalog=catalog, field="assembly")  # type: ignore[arg-type]
+    return doc.model_dump(exclude_none=True), result
+
+
 def save_assembly(
     *,
     session: Session,
@@ -212,10 +226,10 @@ def save_assembly(
     expected_version: int | None,
 ) -> AssemblyResult:
     """Validate, compute and save a surface's assembly. Nothing is saved if it cannot compute."""
-    check_version(house, expected_version)
-    doc = AssemblyInput.model_validate(assembly)
-    result = evaluate_assembly(doc, units=house.units, catalog=catalog, field="assembly")  # type: ignore[arg-type]
-    surface.assembly = doc.model_dump(exclude_none=True)
+    stored, result = checked_assembly(
+        house, assembly, catalog=catalog, expected_version=expected_version
+    )
+    surface.assembly = stored
     touch(house)
     session.flush()
     return result

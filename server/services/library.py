@@ -63,8 +63,6 @@ def add_material(
     source_kind: str = "firm's own",
 ) -> Material:
     """Add one of the firm's own materials (a conductivity or a fixed R, never both)."""
-    from server.physics.units import K_IP_IN_SI  # noqa: F401  (documented unit of the form)
-
     name = name.strip()
     if not name:
         raise InputError("name", "give the material a name")

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from server.documents.assembly import AssemblyInput, AssemblyResult
 from server.documents.common import Units
 from server.physics.condensation import CondensationResult, VapourLayer, glaser_check, summary_words
-from server.physics.units import from_si, temp_to_c, to_si
+from server.physics.units import temp_to_c, to_si
 from server.services.catalog import Catalog
 
 #: winter design condition used when the house gives none (common practice, from memory)
@@ -83,5 +83,4 @@ def check_assembly_moisture(
             "No vapour data for: " + ", ".join(unknown) + ". They are counted as still air, "
             "which can hide or exaggerate a risk: give their sd to make the check count.",
         )
-    _ = from_si  # units of the words come from summary_words
     return MoistureCheck(result, words, indoor_c, indoor_rh, outdoor_c, OUTDOOR_RH, unknown)

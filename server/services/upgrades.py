@@ -8,13 +8,12 @@ from typing import Any
 from pydantic import ValidationError
 from sqlalchemy.orm import Session
 
-from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.assembly import AssemblyResult
 from server.documents.house import CostIn
 from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
-from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
-from server.services.houses import NotFound, check_version, touch, unique_slug
+from server.services.houses import NotFound, check_version, checked_assembly, touch, unique_slug
 from server.services.typical import typical_assemblies
 
 
@@ -147,10 +146,10 @@ def save_upgrade_assembly(
     *, session: Session, house: House, upgrade: Upgrade, assembly: dict[str, Any], catalog: Catalog,
     expected_version: int | None,
 ) -> AssemblyResult:  # fmt: skip
-    check_version(house, expected_version)
-    doc = AssemblyInput.model_validate(assembly)
-    result = evaluate_assembly(doc, units=house.units, catalog=catalog, field="assembly")  # type: ignore[arg-type]
-    upgrade.document = {**upgrade.document, "assembly": doc.model_dump(exclude_none=True)}
+    stored, result = checked_assembly(
+        house, assembly, catalog=catalog, expected_version=expected_version
+    )
+    upgrade.document = {**upgrade.document, "assembly": stored}
     touch(house)
     session.flush()
     return result

@@ -125,7 +125,9 @@ async def require_admin(user: CurrentUser) -> User:
 AdminUser = Annotated[User, Depends(require_admin)]
 
 
-async def get_organization(request: Request, session: SessionDep, user: CurrentUser) -> Organization:
+async def get_organization(
+    request: Request, session: SessionDep, user: CurrentUser
+) -> Organization:
     """The signed-in user's firm: every firm-owned query is filtered on its id.
 
     Async because it normally reads only what :func:`get_current_user` already loaded (one

@@ -10,6 +10,7 @@ from server.documents.common import Units
 from server.errors import InputError
 from server.services.houses import Conflict
 from server.services.typical import typical_assemblies
+from server.web.forms import form_version
 from server.web.layer_form import (
     AssemblyForm,
     LayerForm,
@@ -56,9 +57,9 @@ def run_editor(
     """
     try:
         count = min(int(data.get("layer_count", "0")), MAX_LAYERS)
-        version = int(data["version"]) if data.get("version") else None
     except ValueError:
-        count, version = 0, None
+        count = 0
+    version = form_version(data)
     form = form_from_post(data, count)
     action = data.get("action", "")
     if action.startswith("typical:") and action[8:] in typical_assemblies():

@@ -100,7 +100,7 @@ def form_values(section: str, stored: dict[str, Any] | None) -> dict[str, str]:
 
 
 def parse_section(
-    section: str, data: dict[str, str], keep: dict[str, Any] | None = None
+    section: str, data: dict[str, str]
 ) -> tuple[dict[str, Any] | None, dict[str, str]]:
     """Posted text -> (validated document or None, {field key: message})."""
     _, model, fields = SECTIONS[section]
@@ -135,9 +135,6 @@ def parse_section(
     if section == "economics" and "loan" in doc and len(doc["loan"]) == 1:
         missing = "loan.years" if "apr" in doc["loan"] else "loan.apr"
         errors[missing] = "give both the loan APR and its term, or neither"
-    if keep:  # parts of the document the form does not show (e.g. variable_base) survive a save
-        for key, value in keep.items():
-            doc.setdefault(key, value)
     if errors:
         return None, errors
     try:

@@ -16,6 +16,7 @@ from server.api.errors import field_path
 from server.documents.assembly import AssemblyInput
 from server.documents.common import Units
 from server.physics.units import INCH_M, format_inches, parse_length
+from server.web.forms import parse_length_field
 
 LAYER_TYPES = {
     "r": "Fixed R",
@@ -155,17 +156,7 @@ def _parse_number(layer: LayerForm, key: str, *, positive: bool = True) -> float
 def _parse_length(
     layer: LayerForm, key: str, units: Units, *, required: bool = True
 ) -> float | None:
-    text = layer.get(key)
-    if not text:
-        if required:
-            layer.errors[key] = "required"
-        return None
-    try:
-        metres = parse_length(text, default_unit="in" if units == "ip" else "mm")
-    except ValueError as exc:
-        layer.errors[key] = str(exc)
-        return None
-    return metres / INCH_M if units == "ip" else metres * 1e3
+    return parse_length_field(layer.get(key), units, key, layer.errors, required=required)
 
 
 def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | None:

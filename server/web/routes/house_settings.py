@@ -3,21 +3,19 @@
 from __future__ import annotations
 
 import re
-from typing import Any
 
 from fastapi import APIRouter, Request, UploadFile
 from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
-from server.physics.units import temp_from_c
 from server.services import houses as svc
 from server.services.climate import compute_degree_days
 from server.web.deps import OrgDep, SessionDep, render
+from server.web.forms import form_version
 from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
 
 router = APIRouter()
 MAX_WEATHER_BYTES = 20 * 1024 * 1024
-CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base")
 
 
 def settings_context(
@@ -36,14 +34,14 @@ def settings_context(
             "settings_section": section, "balance": vb}  # fmt: skip
 
 
-def _respond(request: Request, house, ctx: dict, status: int):  # type: ignore[no-untyped-def]
+def _respond(request: Request, session, org, house, ctx: dict, status: int):  # type: ignore[no-untyped-def]
     if request.headers.get("HX-Request") == "true":
         return render(request, "partials/house_settings.html", ctx)
     if status == 200:
         return RedirectResponse(f"/houses/{house.id}#settings", status_code=303)
     from server.web.routes.houses import _house_context  # the full page, with the messages
 
-    full = _house_context(request.state.session, request.state.org, house.id)
+    full = _house_context(session, org, house.id)
     full.update(ctx)
     return render(request, "pages/house.html", full, status_code=status)
 
@@ -53,14 +51,12 @@ async def save_section(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, section: str
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    request.state.session, request.state.org = session, org
     if section not in SECTIONS:
         raise svc.NotFound
     data = {k: str(v) for k, v in (await request.form()).items()}
-    version = int(data["version"]) if data.get("version", "").isdigit() else None
+    version = form_version(data)
     stored = getattr(house, COLUMNS[section]) or {}
-    keep: dict[str, Any] = {}
-    doc, errors = parse_section(section, data, keep)
+    doc, errors = parse_section(section, data)
     zone = data.get("climate_zone", "").strip().upper()
     if section == "climate" and zone and not re.fullmatch(r"[0-8][ABC]?", zone):
         errors = {**errors, "climate_zone": "write the zone like 5 or 5A (0 to 8, then A, B or C)"}
@@ -77,7 +73,7 @@ async def save_section(
     if doc is None:
         ctx = settings_context(house, section=section, typed=data, errors=errors,
                                message="Not saved: check the marked fields.")  # fmt: skip
-        return _respond(request, house, ctx, 409 if "form" in errors else 422)
+        return _respond(request, session, org, house, ctx, 409 if "form" in errors else 422)
     if section == "climate":
         doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
         if zone:
@@ -86,7 +82,7 @@ async def save_section(
     svc.touch(house)
     session.flush()
     ctx = settings_context(house, section=section, message=f"{SECTIONS[section][0]} saved.")
-    return _respond(request, house, ctx, 200)
+    return _respond(request, session, org, house, ctx, 200)
 
 
 def _with_balance_point(house, doc: dict, data: dict[str, str], errors: dict[str, str]):  # type: ignore[no-untyped-def]
@@ -118,28 +114,27 @@ async def upload_weather(
 ):  # type: ignore[no-untyped-def]
     """Read a weather file (EPW, TMY3 or CSV) into the house's climate."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    request.state.session, request.state.org = session, org
     form = await request.form()
-    version = str(form.get("version", ""))
+    version = form_version({"version": str(form.get("version", ""))})
     data = await file.read(MAX_WEATHER_BYTES + 1)
     try:
         if len(data) > MAX_WEATHER_BYTES:
             raise InputError(
                 "file", "the file is larger than 20 MB; a year of hourly data is about 2 MB"
             )
-        svc.check_version(house, int(version) if version.isdigit() else None)
+        svc.check_version(house, version)
         result = compute_degree_days(data, units=house.units, heating_base=None, cooling_base=None)
     except InputError as exc:
         ctx = settings_context(house, section="climate", errors={"file": exc.message},
                                message="The weather file was not used.")  # fmt: skip
-        return _respond(request, house, ctx, 422)
+        return _respond(request, session, org, house, ctx, 422)
     except svc.Conflict:
         ctx = settings_context(
             house,
             section="climate",
             errors={"form": "Someone else saved this house; reload first."},
         )
-        return _respond(request, house, ctx, 409)
+        return _respond(request, session, org, house, ctx, 409)
     climate = {
         "hdd": round(result.hdd, 1),
         "cdd": round(result.cdd, 1),
@@ -164,7 +159,4 @@ async def upload_weather(
     name = result.station or file.filename or "the file"
     ctx = settings_context(house, section="climate", message=f"Climate read from {name}: "
                            f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
-    return _respond(request, house, ctx, 200)
-
-
-__all__ = ["router", "temp_from_c", "CLIMATE_KEYS"]
+    return _respond(request, session, org, house, ctx, 200)

@@ -61,7 +61,9 @@ def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-unty
     catalog = catalog_for(session=session, organization_id=org.id)
     from server.services.firm_code_targets import rows_for
 
-    rows, total_ua = svc.surface_rows(house, catalog, rows_for(session=session, organization_id=org.id))
+    rows, total_ua = svc.surface_rows(
+        house, catalog, rows_for(session=session, organization_id=org.id)
+    )
     from server.web.routes.house_settings import settings_context
     from server.web.routes.sharing import share_context
 

@@ -6,29 +6,12 @@ from fastapi import APIRouter, Request
 from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
-from server.physics.units import INCH_M, parse_length
 from server.services import houses as svc
 from server.services import upgrades as upg
 from server.web.deps import OrgDep, SessionDep, render
-from server.web.forms import parse_float
+from server.web.forms import form_version, parse_float, parse_length_field
 
 router = APIRouter()
-
-
-def _length(
-    text: str, units: str, key: str, errors: dict[str, str], *, optional: bool = False
-) -> float | None:
-    """Pipe diameters and insulation thickness as typed (3/4, 7/8", 22 mm) -> in or mm."""
-    if not text.strip():
-        if not optional:
-            errors[key] = "required"
-        return None
-    try:
-        metres = parse_length(text, default_unit="in" if units == "ip" else "mm")
-    except ValueError as exc:
-        errors[key] = str(exc)
-        return None
-    return metres / INCH_M if units == "ip" else metres * 1e3
 
 
 def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, str]]:
@@ -36,10 +19,10 @@ def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, s
     values = {
         "length": parse_float(data.get("length", ""), "length", errors),
         "hours_per_year": parse_float(data.get("hours_per_year", ""), "hours_per_year", errors),
-        "pipe_outer_diameter": _length(data.get("pipe_outer_diameter", ""), units, "pipe_outer_diameter", errors),
+        "pipe_outer_diameter": parse_length_field(data.get("pipe_outer_diameter", ""), units, "pipe_outer_diameter", errors),
         "fluid_temperature": parse_float(data.get("fluid_temperature", ""), "fluid_temperature", errors, positive=False),
         "ambient_temperature": parse_float(data.get("ambient_temperature", ""), "ambient_temperature", errors, positive=False),
-        "thickness": _length(data.get("thickness", ""), units, "thickness", errors, optional=True),
+        "thickness": parse_length_field(data.get("thickness", ""), units, "thickness", errors, required=False),
         "conductivity": parse_float(data["conductivity"], "conductivity", errors) if data.get("conductivity", "").strip() else None,
     }  # fmt: skip
     if (values["thickness"] is None) != (values["conductivity"] is None) and not errors:
@@ -65,7 +48,7 @@ async def add_pipe_run(request: Request, session: SessionDep, org: OrgDep, house
         try:
             surface = svc.add_pipe_run(session=session, house=house, name=data.get("name", ""), length=values["length"],
                                        pipe=pipe, hours_per_year=values["hours_per_year"],
-                                       expected_version=int(data["version"]) if data.get("version", "").isdigit() else None)  # fmt: skip
+                                       expected_version=form_version(data))  # fmt: skip
             return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
         except InputError as exc:
             errors[exc.field.split(".")[-1]] = exc.message
@@ -88,13 +71,13 @@ async def insulate_pipe(
     )
     data = {k: str(v) for k, v in (await request.form()).items()}
     errors: dict[str, str] = {}
-    thickness = _length(data.get("thickness", ""), house.units, "thickness", errors)
+    thickness = parse_length_field(data.get("thickness", ""), house.units, "thickness", errors)
     conductivity = parse_float(data.get("conductivity", ""), "conductivity", errors)
     if not errors:
         try:
             upgrade = upg.add_pipe_insulation(session=session, house=house, surface=surface, name=data.get("name", ""),
                                               thickness=thickness or 0.0, conductivity=conductivity or 0.0,
-                                              expected_version=int(data["version"]) if data.get("version", "").isdigit() else None)  # fmt: skip
+                                              expected_version=form_version(data))  # fmt: skip
             return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
         except InputError as exc:
             errors[exc.field] = exc.message

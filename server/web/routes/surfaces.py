@@ -17,7 +17,7 @@ from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.editor import run_editor
-from server.web.forms import parse_float
+from server.web.forms import form_version, parse_float
 from server.web.layer_form import (
     CAVITY_TYPES,
     LAYER_TYPES,
@@ -43,11 +43,14 @@ def _moisture(house, surface, result, catalog):  # type: ignore[no-untyped-def]
     return {"check": check, "svg": condensation_svg(check.result, units=house.units)}
 
 
-def _context(session, org, house, surface, form: AssemblyForm, result, message: str = "") -> dict:  # type: ignore[no-untyped-def]
-    catalog = catalog_for(session=session, organization_id=org.id)
+def _context(
+    session, org, house, surface, form: AssemblyForm, result, message: str = "", *, catalog
+) -> dict:  # type: ignore[no-untyped-def]
     return {
         "moisture": None if form.has_errors else _moisture(house, surface, result, catalog),
-        "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=org.id)),
+        "code": code_verdict(
+            house.climate, surface.kind, result, rows_for(session=session, organization_id=org.id)
+        ),
         "cautions": cautions_for([surface.kind]),
         "house": house,
         "surface": surface,
@@ -90,7 +93,9 @@ def surface_page(
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
     if surface.kind == "pipe_run":
-        return render(request, "pages/pipe_run.html", pipe_run_context(session, org, house, surface))
+        return render(
+            request, "pages/pipe_run.html", pipe_run_context(session, org, house, surface)
+        )
     catalog = catalog_for(session=session, organization_id=org.id)
     form = form_from_document(surface.assembly, house.units)
     try:
@@ -100,7 +105,9 @@ def surface_page(
     except (InputError, ValueError):
         result = None
     return render(
-        request, "pages/surface.html", _context(session, org, house, surface, form, result)
+        request,
+        "pages/surface.html",
+        _context(session, org, house, surface, form, result, catalog=catalog),
     )
 
 
@@ -124,7 +131,7 @@ async def save_assembly(
     )
     # htmx swaps 200 responses only by default: return 200 with the messages in the fragment.
     code = 200 if request.headers.get("HX-Request") else status
-    ctx = _context(session, org, house, surface, form, result, message)
+    ctx = _context(session, org, house, surface, form, result, message, catalog=catalog)
     return render(request, template, ctx, status_code=code)
 
 
@@ -134,7 +141,7 @@ async def update_surface(
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
     data = {k: str(v) for k, v in (await request.form()).items()}
-    version = int(data["version"]) if data.get("version", "").isdigit() else None
+    version = form_version(data)
     if data.get("action") == "delete":
         svc.delete_surface(session=session, house=house, surface=surface, expected_version=version)
         return RedirectResponse(f"/houses/{house.id}", status_code=303)
@@ -156,7 +163,7 @@ async def update_surface(
         result = evaluate_assembly(
             AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
         )
-        ctx = _context(session, org, house, surface, form, result)
+        ctx = _context(session, org, house, surface, form, result, catalog=catalog)
         ctx["detail_errors"], ctx["detail_form"] = errors, data
         return render(request, "pages/surface.html", ctx, status_code=422)
     return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)

@@ -10,7 +10,7 @@ from server.documents.pipe import PipeRequest
 from server.errors import InputError
 from server.services.pipe import compute_pipe
 from server.web.deps import render
-from server.web.forms import parse_float
+from server.web.forms import parse_float, parse_length_field
 
 router = APIRouter()
 
@@ -28,8 +28,6 @@ _SIGNED = ("fluid_temperature", "ambient_temperature")
 
 
 def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest | None:
-    from server.physics.units import INCH_M, parse_length
-
     units = form.get("units") if form.get("units") in ("ip", "si") else "ip"
     values: dict[str, float | None] = {}
     for key in PIPE_DEFAULTS["ip"]:
@@ -40,11 +38,7 @@ def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest |
             values[key] = None
             continue
         if key in _LENGTHS:
-            try:
-                metres = parse_length(text, default_unit="in" if units == "ip" else "mm")
-                values[key] = metres / INCH_M if units == "ip" else metres * 1e3
-            except ValueError as exc:
-                errors[key] = str(exc)
+            values[key] = parse_length_field(text, units, key, errors)
             continue
         values[key] = parse_float(text, key, errors, positive=key not in _SIGNED)
     if errors:

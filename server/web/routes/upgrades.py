@@ -18,14 +18,10 @@ from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.editor import run_editor
-from server.web.forms import parse_float
+from server.web.forms import form_version, parse_float
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
 
 router = APIRouter()
-
-
-def _version(data: dict[str, str]) -> int | None:
-    return int(data["version"]) if data.get("version", "").isdigit() else None
 
 
 def _number(
@@ -39,8 +35,9 @@ def _number(
     return parse_float(text, key, errors, positive=False)
 
 
-def _upgrade_context(session, org, house, upgrade, form=None, result=None, message="", errors=None):  # type: ignore[no-untyped-def]
-    catalog = catalog_for(session=session, organization_id=org.id)
+def _upgrade_context(session, org, house, upgrade, form=None, result=None, message="", errors=None, catalog=None):  # type: ignore[no-untyped-def]
+    if catalog is None:
+        catalog = catalog_for(session=session, organization_id=org.id)
     surface = next((s for s in house.surfaces if s.id == upgrade.surface_id), None)
     before = None
     if surface is not None:
@@ -87,7 +84,7 @@ async def add_upgrade(request: Request, session: SessionDep, org: OrgDep, house_
             life = _number(data, "life_years", errors)
             if not errors:
                 upg.add_air_sealing(session=session, house=house, name=data.get("name", ""), cfm50_after=target or 0.0,
-                                    fixed=fixed, rebate=rebate, life_years=life, expected_version=_version(data))  # fmt: skip
+                                    fixed=fixed, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
                 return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
         else:
             surface_id = int(data.get("surface_id", "0") or 0)
@@ -95,7 +92,7 @@ async def add_upgrade(request: Request, session: SessionDep, org: OrgDep, house_
                 session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
             )
             upgrade = upg.add_assembly_upgrade(session=session, house=house, surface=surface, name=data.get("name", ""),
-                                               start=data.get("start", "as_found"), expected_version=_version(data))  # fmt: skip
+                                               start=data.get("start", "as_found"), expected_version=form_version(data))  # fmt: skip
             return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
     except InputError as exc:
         errors[exc.field] = exc.message
@@ -130,7 +127,7 @@ async def update_upgrade(
     try:
         if data.get("action") == "delete":
             upg.delete_upgrade(
-                session=session, house=house, upgrade=upgrade, expected_version=_version(data)
+                session=session, house=house, upgrade=upgrade, expected_version=form_version(data)
             )
             return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
         fixed = _number(data, "cost_fixed", errors) or 0.0
@@ -139,7 +136,7 @@ async def update_upgrade(
         life = _number(data, "life_years", errors)
         if not errors:
             upg.update_upgrade(session=session, house=house, upgrade=upgrade, name=data.get("name", ""), fixed=fixed,
-                               per_area=per_area, rebate=rebate, life_years=life, expected_version=_version(data))  # fmt: skip
+                               per_area=per_area, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
             return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
     except InputError as exc:
         errors[exc.field] = exc.message
@@ -171,7 +168,9 @@ async def save_upgrade_assembly(
     htmx = request.headers.get("HX-Request") == "true"
     if not htmx and status == 200:
         return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
-    ctx = _upgrade_context(session, org, house, upgrade, form=form, result=result, message=message)
+    ctx = _upgrade_context(
+        session, org, house, upgrade, form=form, result=result, message=message, catalog=catalog
+    )
     template = "partials/layer_editor.html" if htmx else "pages/upgrade.html"
     return render(request, template, ctx, status_code=200 if htmx else status)
 
@@ -185,10 +184,10 @@ async def add_package(request: Request, session: SessionDep, org: OrgDep, house_
     try:
         if data.get("action", "").startswith("delete:"):
             upg.delete_package(session=session, house=house, package_id=int(data["action"][7:] or 0),
-                               expected_version=_version(data))  # fmt: skip
+                               expected_version=form_version(data))  # fmt: skip
         else:
             upg.add_package(session=session, house=house, name=data.get("name", ""),
-                            upgrade_slugs=[str(v) for v in form.getlist("upgrades")], expected_version=_version(data))  # fmt: skip
+                            upgrade_slugs=[str(v) for v in form.getlist("upgrades")], expected_version=form_version(data))  # fmt: skip
         return RedirectResponse(f"/houses/{house.id}#packages", status_code=303)
     except (InputError, ValueError) as exc:
         errors["package"] = exc.message if isinstance(exc, InputError) else "unknown package"
