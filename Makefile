@@ -27,13 +27,16 @@ demo: migrate
 run: demo
 	$(BIN)/warmstead serve --host $(HOST) --port $(PORT) --workers $(WORKERS)
 
-## Debian's chromium for the browser tests (never a downloaded browser build)
+## Debian's chromium for the browser tests (never a downloaded browser build), and poppler-utils
+## for reading the printed quote back (pdfinfo, pdftotext, pdftoppm)
 browser:
-	@if command -v chromium >/dev/null 2>&1; then echo "chromium: $$(command -v chromium)"; \
+	@missing=""; command -v chromium >/dev/null 2>&1 || missing="chromium"; \
+	command -v pdftotext >/dev/null 2>&1 || missing="$$missing poppler-utils"; \
+	if [ -z "$$missing" ]; then echo "chromium: $$(command -v chromium); poppler: $$(command -v pdftotext)"; \
 	elif [ "$$(id -u)" = "0" ] && command -v apt-get >/dev/null 2>&1; then \
-	  (apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium) \
-	  || echo "chromium could not be installed: browser tests will skip"; \
-	else echo "chromium is not installed and cannot be installed here: browser tests will skip"; fi
+	  (apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq $$missing) \
+	  || echo "$$missing could not be installed: the tests that need them will skip"; \
+	else echo "$$missing not installed and cannot be installed here: the tests that need them will skip"; fi
 
 lint: $(STAMP)
 	$(BIN)/ruff check server tests scripts
@@ -47,6 +50,9 @@ test: $(STAMP) browser
 ## make bench: loopback load test (compare page, calc/house, a bare page of the same size) and
 ## the weather-file reader timing; not part of make test (about two minutes)
 bench: $(STAMP)
+	@command -v wrk >/dev/null 2>&1 || { [ "$$(id -u)" = "0" ] && command -v apt-get >/dev/null 2>&1 \
+	  && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq wrk >/dev/null; } \
+	  || echo "wrk is not installed: the load comes from the slower Python client"
 	$(BIN)/python scripts/bench_load.py
 	$(BIN)/python scripts/bench_weather.py
 

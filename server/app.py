@@ -14,6 +14,7 @@ from starlette.requests import cookie_parser
 from starlette.types import ASGIApp, Message, Receive, Scope, Send
 
 from server import security
+from server.admission import AdmissionGate
 from server.api import api_router
 from server.api.errors import install_error_handlers
 from server.config import ROOT, Settings, get_settings
@@ -158,11 +159,19 @@ def create_app(settings: Settings | None = None) -> FastAPI:
         dependencies=[Depends(signed_in_gate), Depends(csrf_protect)],
     )
     app.state.settings = settings
-    app.state.engine = make_engine(settings.database_url, echo=settings.sql_echo)
+    app.state.engine = make_engine(
+        settings.database_url, echo=settings.sql_echo, pool_size=settings.db_pool_size
+    )
     app.state.session_factory = make_session_factory(app.state.engine)
     app.state.templates = make_templates()
     install_error_handlers(app)
     _install_security_handlers(app)
+    # outermost first: security headers on every answer, gzip after the gate has let go
+    app.add_middleware(
+        AdmissionGate,
+        limit=settings.max_active_requests,
+        max_body_bytes=settings.max_body_bytes,
+    )
     app.add_middleware(GZipMiddleware, minimum_size=800)
     app.add_middleware(SecurityMiddleware, settings=settings)
     app.mount("/static", StaticFiles(directory=str(ROOT / "static")), name="static")

@@ -26,12 +26,25 @@ class Settings(BaseSettings):
     sql_echo: bool = False
     #: mark cookies Secure even when the request looks like http (TLS ended at a proxy)
     cookie_secure: bool = False
+    #: requests inside the app at once per process (the rest wait their turn, first come
+    #: first served; see server/admission.py). At most the database pool's size.
+    max_active_requests: int = 8
+    #: connections per process in the database pool (SQLAlchemy ``pool_size``; 10 more may
+    #: open briefly under a burst)
+    db_pool_size: int = 10
+    #: the largest request body taken [bytes]; larger ones get 413
+    max_body_bytes: int = 25 * 1024 * 1024
 
     @model_validator(mode="after")
     def _refuse_default_secret(self) -> Settings:
         if self.environment == "production" and self.secret_key == DEV_SECRET:
             raise ValueError(
                 "set WARMSTEAD_SECRET_KEY: the development secret is refused in production"
+            )
+        if not 1 <= self.max_active_requests <= self.db_pool_size:
+            raise ValueError(
+                "WARMSTEAD_MAX_ACTIVE_REQUESTS must be between 1 and WARMSTEAD_DB_POOL_SIZE "
+                f"({self.db_pool_size}): each request inside the app may hold a connection"
             )
         return self
 

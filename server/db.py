@@ -20,8 +20,11 @@ def normalise_url(url: str) -> str:
     return url
 
 
-def make_engine(url: str, *, echo: bool = False) -> Engine:
-    """Create an engine for ``url`` with the project's connection settings."""
+def make_engine(url: str, *, echo: bool = False, pool_size: int = 10) -> Engine:
+    """Create an engine for ``url`` with the project's connection settings.
+
+    ``pool_size`` connections stay open per process (10 more may open under a burst); the
+    admission gate (server/admission.py) lets no more requests in than that."""
     url = normalise_url(url)
     parsed = make_url(url)
     if parsed.get_backend_name() == "sqlite":
@@ -34,11 +37,15 @@ def make_engine(url: str, *, echo: bool = False) -> Engine:
             url,
             echo=echo,
             connect_args={"check_same_thread": False, "timeout": 15},
-            poolclass=StaticPool if in_memory else None,
+            **(
+                {"poolclass": StaticPool}
+                if in_memory
+                else {"pool_size": pool_size, "max_overflow": 10}
+            ),
         )
         event.listen(engine, "connect", _sqlite_pragmas)
         return engine
-    return create_engine(url, echo=echo, pool_pre_ping=True, pool_size=10, max_overflow=10)
+    return create_engine(url, echo=echo, pool_pre_ping=True, pool_size=pool_size, max_overflow=10)
 
 
 def _sqlite_pragmas(dbapi_connection, _record) -> None:  # type: ignore[no-untyped-def]

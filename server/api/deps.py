@@ -9,8 +9,10 @@ from fastapi import Depends
 from server.services.catalog import Catalog, builtin_catalog
 
 
-def get_catalog() -> Catalog:
-    """The material catalog for this request (built-in library; firms add theirs later)."""
+async def get_catalog() -> Catalog:
+    """The material catalog for this request (built-in library; firms add theirs later).
+
+    Async: it does no I/O, so it needs no threadpool hop."""
     return builtin_catalog()
 
 

@@ -16,15 +16,17 @@ route cannot forget them; ``CurrentUser``/``OrgDep`` on a route say the same thi
 
 from __future__ import annotations
 
-from collections.abc import Iterator
+from collections.abc import AsyncIterator, Callable
 from dataclasses import dataclass
-from typing import Annotated, Any
+from typing import Annotated, Any, TypeVar
 
+import anyio
 from fastapi import Depends, Request
 from fastapi.templating import Jinja2Templates
 from jinja2 import pass_context
 from markupsafe import Markup
 from sqlalchemy.orm import Session
+from starlette.concurrency import run_in_threadpool
 
 from server.config import ROOT
 from server.models import Organization, User
@@ -39,6 +41,7 @@ PUBLIC_PATHS = frozenset({"/login", "/healthz", "/openapi.json", "/docs", "/docs
 PUBLIC_PREFIXES = ("/s/", "/static/", "/api/v1/calc/")
 CSRF_EXEMPT_PREFIXES = ("/api/v1/calc/",)  # stateless, public, called by other tools
 _UNSET = object()
+T = TypeVar("T")
 
 
 @dataclass(frozen=True, slots=True)
@@ -69,12 +72,36 @@ def is_public(path: str) -> bool:
     return path in PUBLIC_PATHS or path == "/s" or path.startswith(PUBLIC_PREFIXES)
 
 
-def get_session(request: Request) -> Iterator[Session]:
-    """One session per request; committed when the route returns without error."""
+async def get_session(request: Request) -> AsyncIterator[Session]:
+    """One session per request; committed when the route returns without error.
+
+    Async on purpose: making a session does no I/O (it connects on its first query, inside a
+    route's threadpool hop), so only the ending, which may talk to the database, takes a hop,
+    and none when the request never touched the database.
+    """
     session: Session = request.app.state.session_factory()
     try:
         yield session
-        session.commit()
+    except BaseException:
+        await _finish(session, commit=False)
+        raise
+    await _finish(session, commit=True)
+
+
+async def _finish(session: Session, *, commit: bool) -> None:
+    if not session.in_transaction() and not (session.new or session.dirty or session.deleted):
+        session.close()  # never connected, nothing pending: no I/O
+        return
+    with anyio.CancelScope(shield=True):  # a client gone away must not leak a connection
+        await run_in_threadpool(_end, session, commit)
+
+
+def _end(session: Session, commit: bool) -> None:
+    try:
+        if commit:
+            session.commit()
+        else:
+            session.rollback()
     except Exception:
         session.rollback()
         raise
@@ -82,21 +109,48 @@ def get_session(request: Request) -> Iterator[Session]:
         session.close()
 
 
+async def run_unit(session: Session, work: Callable[[], T]) -> T:
+    """``work()`` in the threadpool, then the session's transaction ended in that same hop:
+    committed when it returns, rolled back when it raises.
+
+    For async routes whose database work is one unit: one hop in all, where a sync route takes
+    two (its body, then the session dependency's commit). What the route does afterwards on the
+    event loop must not touch the database (loaded columns only).
+    """
+
+    def unit() -> T:
+        try:
+            value = work()
+            session.commit()
+        except BaseException:
+            session.rollback()
+            raise
+        return value
+
+    return await run_in_threadpool(unit)
+
+
 #: scope="function": the commit runs when the route returns, before the response is sent, so
 #: a 201/303 is never sent for a save that is not committed (tests/durability/test_crash.py)
 SessionDep = Annotated[Session, Depends(get_session, scope="function")]
 
 
-def get_current_user(request: Request, session: SessionDep) -> User | None:
-    """The signed-in user, or None (no cookie, bad signature, expired, revoked or inactive)."""
+async def get_current_user(request: Request, session: SessionDep) -> User | None:
+    """The signed-in user, or None (no cookie, bad signature, expired, revoked or inactive).
+
+    Looked up once per request (the app-wide gate asks first; routes then get the same row),
+    with one threadpool hop, and none without a valid session cookie."""
     cached: User | None | object = getattr(request.state, "user", _UNSET)
     if cached is not _UNSET:
         return cached if isinstance(cached, User) else None
     data = getattr(request.state, "session_data", None)
     found = None
     if data is not None:
-        found = accounts.user_for_session(
-            session=session, user_id=data.user_id, session_version=data.session_version
+        found = await run_in_threadpool(
+            accounts.user_for_session,
+            session=session,
+            user_id=data.user_id,
+            session_version=data.session_version,
         )
     user = found[0] if found else None
     request.state.organization = found[1] if found else None
@@ -136,19 +190,17 @@ async def get_organization(
     org = getattr(request.state, "organization", None)
     if isinstance(org, Organization) and org.id == user.organization_id:
         return org
-    from starlette.concurrency import run_in_threadpool
-
     return await run_in_threadpool(accounts.organization_of, session=session, user=user)
 
 
 OrgDep = Annotated[Organization, Depends(get_organization)]
 
 
-def signed_in_gate(request: Request, session: SessionDep) -> None:
+async def signed_in_gate(request: Request, session: SessionDep) -> None:
     """App-wide: every route outside :func:`is_public` needs a signed-in user."""
     if is_public(request.url.path):
         return
-    if get_current_user(request, session) is None:
+    if await get_current_user(request, session) is None:
         raise SignInRequired
 
 

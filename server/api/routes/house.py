@@ -1,6 +1,7 @@
 """POST /api/v1/calc/house: the whole-house comparison of upgrades and packages."""
 
 from fastapi import APIRouter
+from fastapi.responses import Response
 
 from server.api.deps import CatalogDep
 from server.api.errors import ERROR_RESPONSES
@@ -11,6 +12,10 @@ router = APIRouter(tags=["calculators"])
 
 
 @router.post("/calc/house", response_model=HouseResult, responses=ERROR_RESPONSES)
-def calc_house(document: HouseDocument, catalog: CatalogDep) -> HouseResult:
+def calc_house(document: HouseDocument, catalog: CatalogDep) -> Response:
     """Energy, cost, CO2 and economics of the as-found house, each upgrade and each package."""
-    return compute_house(document, catalog=catalog)
+    result = compute_house(document, catalog=catalog)
+    # Serialized once, here. Returned as a model, it would be validated again against
+    # HouseResult first: 45 ms of the ~150 ms this takes for a 40-surface house with 200
+    # upgrades (measured), for a model compute_house has just built and checked.
+    return Response(result.model_dump_json(), media_type="application/json")

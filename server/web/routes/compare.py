@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from fastapi import APIRouter, Query, Request
 from fastapi.responses import HTMLResponse
+from markupsafe import Markup
 
 from server.errors import InputError
 from server.services.cautions import GENERAL, cautions_for
@@ -12,7 +13,7 @@ from server.services.house_document import house_document
 from server.services.library import catalog_for
 from server.web.charts import bar_chart, cash_flow_chart
 from server.web.compare_cache import cached_compare_context, fragment_html, house_row
-from server.web.deps import OrgDep, SessionDep, render
+from server.web.deps import OrgDep, SessionDep, render, run_unit
 
 router = APIRouter()
 
@@ -68,21 +69,27 @@ def build_compare_context(house, catalog, chosen: list[str]) -> dict:  # type: i
 
 
 @router.get("/houses/{house_id}/compare", name="compare")
-def compare_page(  # type: ignore[no-untyped-def]
+async def compare_page(  # type: ignore[no-untyped-def]
     request: Request,
     session: SessionDep,
     org: OrgDep,
     house_id: int,
     pick: list[str] = Query(default=[]),
 ):
-    # The house row alone: its surfaces, upgrades and packages load only when not kept.
-    house = house_row(session=session, organization_id=org.id, house_id=house_id)
-    catalog = catalog_for(session=session, organization_id=org.id)
-    context = compare_context(house, catalog, pick)
-    # The body is rendered once per state of the house and kept (it reads nothing of the
-    # viewer); the page around it, with the viewer's name and CSRF token, is rendered each time.
     is_htmx = request.headers.get("HX-Request") == "true"
-    body = fragment_html(context, request.app.state.templates.env, is_htmx=is_htmx)
-    if request.headers.get("HX-Request"):
+    environment = request.app.state.templates.env
+
+    def read() -> tuple[dict, Markup]:
+        # The house row alone: its surfaces, upgrades and packages load only when not kept.
+        house = house_row(session=session, organization_id=org.id, house_id=house_id)
+        catalog = catalog_for(session=session, organization_id=org.id)
+        context = compare_context(house, catalog, pick)
+        # The body is rendered once per state of the house and kept (it reads nothing of the
+        # viewer); the page around it, with the viewer's name and CSRF token, is rendered
+        # each time, below, from loaded columns only (house.id, house.label).
+        return context, fragment_html(context, environment, is_htmx=is_htmx)
+
+    context, body = await run_unit(session, read)
+    if is_htmx:
         return HTMLResponse(body)
     return render(request, "pages/compare.html", {**context, "compare_body_html": body})
