@@ -4,7 +4,8 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 PORT   ?= 8000
 HOST   ?= 127.0.0.1
-WORKERS ?= 1
+## one worker per core, at most 4 (see README: several app processes)
+WORKERS ?= $(shell n=$$(nproc 2>/dev/null || echo 1); [ $$n -gt 4 ] && n=4; echo $$n)
 STAMP  := $(VENV)/.installed
 
 .PHONY: run test install migrate demo browser lint bench clean

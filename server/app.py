@@ -14,6 +14,7 @@ from starlette.requests import cookie_parser
 from starlette.types import ASGIApp, Message, Receive, Scope, Send
 
 from server import security
+from server.access_log import AccessLog
 from server.admission import AdmissionGate
 from server.api import api_router
 from server.api.errors import install_error_handlers
@@ -163,7 +164,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
         settings.database_url, echo=settings.sql_echo, pool_size=settings.db_pool_size
     )
     app.state.session_factory = make_session_factory(app.state.engine)
-    app.state.templates = make_templates()
+    app.state.templates = make_templates(auto_reload=settings.environment == "development")
     install_error_handlers(app)
     _install_security_handlers(app)
     # outermost first: security headers on every answer, gzip after the gate has let go
@@ -174,6 +175,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     )
     app.add_middleware(GZipMiddleware, minimum_size=800)
     app.add_middleware(SecurityMiddleware, settings=settings)
+    app.add_middleware(AccessLog)
     app.mount("/static", StaticFiles(directory=str(ROOT / "static")), name="static")
     app.include_router(api_router)
     app.include_router(web_router)

@@ -9,6 +9,7 @@ import sqlite3
 import sys
 import time
 from pathlib import Path
+from typing import Any
 
 from server.config import ROOT, get_settings
 
@@ -56,6 +57,26 @@ def server_options() -> dict[str, str]:
     }
 
 
+def log_config() -> dict[str, Any]:
+    """uvicorn's logging set-up, with our access log (server/access_log.py: share-link tokens
+    blanked) on stdout in place of uvicorn's own."""
+    import copy
+
+    from uvicorn.config import LOGGING_CONFIG
+
+    config = copy.deepcopy(LOGGING_CONFIG)
+    config["formatters"]["warmstead"] = {
+        "format": "%(asctime)s %(message)s", "datefmt": "%Y-%m-%dT%H:%M:%S%z",
+    }  # fmt: skip
+    config["handlers"]["warmstead_access"] = {
+        "formatter": "warmstead", "class": "logging.StreamHandler", "stream": "ext://sys.stdout",
+    }  # fmt: skip
+    config["loggers"]["warmstead.access"] = {
+        "handlers": ["warmstead_access"], "level": "INFO", "propagate": False,
+    }  # fmt: skip
+    return config
+
+
 def serve(host: str, port: int, workers: int) -> None:
     import uvicorn
 
@@ -66,6 +87,8 @@ def serve(host: str, port: int, workers: int) -> None:
         workers=workers,
         proxy_headers=False,
         log_level="info",
+        access_log=False,  # ours instead: server/access_log.py
+        log_config=log_config(),
         **server_options(),  # type: ignore[arg-type]
     )
 

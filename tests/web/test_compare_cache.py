@@ -155,3 +155,51 @@ def test_skipping_the_single_upgrade_options_leaves_the_packages_unchanged() -> 
     assert packages_only.packages == full.packages
     assert packages_only.as_found == full.as_found
     assert packages_only.warnings == full.warnings
+
+
+def test_the_kept_page_shows_each_viewer_their_own_name_role_and_token(
+    app: Any, viewer: Any
+) -> None:
+    # The whole page is kept once per state of the house and role, with marks where the
+    # viewer's own values go (compare_cache.page_html). Three people of one firm, two roles,
+    # one without a name, one with markup in it: each sees only their own values.
+    from server.security import CSRF_HEADER
+    from server.services.accounts import create_user
+
+    people = [("admin", "Ana <b>Admin</b>"), ("staff", "Sam Staff"), ("staff", "")]
+    headers = []
+    with session_scope(app.state.session_factory) as session:
+        for i, (role, name) in enumerate(people):
+            user = create_user(session=session, organization_id=viewer.org_id,
+                               email=f"person{i}@example.com", password="a-long-password-1",
+                               role=role, name=name)  # fmt: skip
+            session.flush()
+            headers.append((user.id, user.session_version))
+    secret = app.state.settings.secret_key
+    pages = []
+    with TestClient(app) as client:
+        for user_id, version in headers:
+            sent = session_headers(secret, user_id=user_id, session_version=version)
+            response = client.get(f"/houses/{viewer.house_id}/compare", headers=sent)
+            assert response.status_code == 200
+            pages.append((sent[CSRF_HEADER], response.text))
+    assert CACHE.hits >= 2  # the later views were kept pages
+    for i, (token, html) in enumerate(pages):
+        role, name = people[i]
+        shown = name.replace("<", "&lt;").replace(">", "&gt;") or f"person{i}@example.com"
+        assert f"Signed in as <strong>{shown}</strong>" in html
+        assert html.count(token) == 2  # hx-headers on <body> and the sign-out form
+        assert ("/admin/users" in html) == (role == "admin")
+        for j, (other_token, _other) in enumerate(pages):
+            if j != i:
+                assert other_token not in html
+        for mark in (compare_cache.NAME_MARK, compare_cache.EMAIL_MARK, compare_cache.CSRF_MARK):
+            assert mark not in html
+    assert "<b>Admin</b>" not in pages[0][1]  # the name is escaped, never markup
+
+
+def test_the_kept_page_may_read_nothing_else_of_the_request() -> None:
+    marks = compare_cache.ViewerMarks("staff", has_name=True)
+    assert marks.state.csrf_token == compare_cache.CSRF_MARK
+    with pytest.raises(RuntimeError, match="request.headers"):
+        _ = marks.headers  # type: ignore[attr-defined]

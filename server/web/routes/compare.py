@@ -12,8 +12,8 @@ from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 from server.web.charts import bar_chart, cash_flow_chart
-from server.web.compare_cache import cached_compare_context, fragment_html, house_row
-from server.web.deps import OrgDep, SessionDep, render, run_unit
+from server.web.compare_cache import cached_compare_context, fragment_html, house_row, page_html
+from server.web.deps import OrgDep, SessionDep, run_unit
 
 router = APIRouter()
 
@@ -85,11 +85,13 @@ async def compare_page(  # type: ignore[no-untyped-def]
         catalog = catalog_for(session=session, organization_id=org.id)
         context = compare_context(house, catalog, pick)
         # The body is rendered once per state of the house and kept (it reads nothing of the
-        # viewer); the page around it, with the viewer's name and CSRF token, is rendered
-        # each time, below, from loaded columns only (house.id, house.label).
+        # viewer); so is the page around it, with marks for the viewer's name and CSRF token
+        # (see page_html), filled in below on the event loop without the database.
         return context, fragment_html(context, environment, is_htmx=is_htmx)
 
     context, body = await run_unit(session, read)
     if is_htmx:
         return HTMLResponse(body)
-    return render(request, "pages/compare.html", {**context, "compare_body_html": body})
+    html = page_html(context, environment, viewer=request.state.viewer,
+                     csrf_token=request.state.csrf_token)  # fmt: skip
+    return HTMLResponse(html)
