@@ -2,11 +2,12 @@
 and a bare FastAPI + Jinja2 page of the same HTML size served the same way, in one run.
 
 Usage: ``.venv/bin/python scripts/bench_load.py [--seconds 5] [--rounds 3] [--connections 32]
-[--workers 1 2] [--client auto|wrk|python]`` (``make bench`` runs it with the defaults; about
-two minutes). The compare page and the bare page are loaded in interleaved rounds and the
+[--workers 1 2] [--client auto|wrk|python] [--postgres URL]`` (``make bench`` runs it with the
+defaults, on SQLite; about two minutes). The compare page and the bare page are loaded in interleaved rounds and the
 median round is reported, so that other work on the machine weighs on both alike.
 
-Everything runs on 127.0.0.1 in a temp directory: a migrated SQLite file holding one house of
+Everything runs on 127.0.0.1 in a temp directory: a migrated SQLite file (or, with
+``--postgres``, a schema of its own on that server, dropped at the end) holding one house of
 40 surfaces, 5 upgrades on each and 6 packages (tests/utils/houses.py), a signed-in user
 (cookie made as at sign-in), ``warmstead serve`` (uvloop + httptools when installed) and the
 bare app under the same uvicorn settings. Load comes from ``wrk`` when installed (C, one
@@ -105,7 +106,26 @@ class Setup:
     document: dict[str, Any]
 
 
-def prepare(directory: Path) -> Setup:
+BENCH_SCHEMA = f"warmstead_bench_{os.getpid()}"
+
+
+def postgres_schema(base_url: str, *, drop: bool = False) -> str:
+    """A fresh schema of its own on ``base_url`` (the URL that uses it), or drop it."""
+    from sqlalchemy import text
+
+    from server.db import make_engine
+
+    engine = make_engine(base_url)
+    with engine.begin() as conn:
+        conn.execute(text(f'DROP SCHEMA IF EXISTS "{BENCH_SCHEMA}" CASCADE'))
+        if not drop:
+            conn.execute(text(f'CREATE SCHEMA "{BENCH_SCHEMA}"'))
+    engine.dispose()
+    sep = "&" if "?" in base_url else "?"
+    return f"{base_url}{sep}options=-csearch_path%3D{BENCH_SCHEMA}"
+
+
+def prepare(directory: Path, postgres: str | None = None) -> Setup:
     from server.cli import migrate
     from server.db import make_engine, make_session_factory, session_scope
     from server.documents.house import HouseDocument
@@ -113,7 +133,7 @@ def prepare(directory: Path) -> Setup:
     from tests.utils.auth import signed_in_headers_for_url
     from tests.utils.houses import big_house_document
 
-    url = f"sqlite:///{directory / 'bench.db'}"
+    url = postgres_schema(postgres) if postgres else f"sqlite:///{directory / 'bench.db'}"
     secret = secrets.token_urlsafe(32)
     migrate(url)
     org_id, headers = signed_in_headers_for_url(url, secret, email="bench@example.com")
@@ -369,15 +389,20 @@ def main() -> int:
     parser.add_argument("--workers", type=int, nargs="+", default=[1, 2])
     parser.add_argument("--client", choices=["auto", "wrk", "python"], default="auto")
     parser.add_argument("--rounds", type=int, default=3, help="interleaved rounds per page")
+    parser.add_argument("--postgres", metavar="URL", help="serve from PostgreSQL at URL (a schema "
+                        "of its own, dropped afterwards) instead of a SQLite file")  # fmt: skip
     args = parser.parse_args()
     client = args.client
     if client == "auto":
         client = "wrk" if shutil.which("wrk") else "python"
     work = Path(tempfile.mkdtemp(prefix="warmstead-bench-"))
     try:
-        return run(work, args.seconds, args.connections, args.workers, client, args.rounds)
+        return run(work, args.seconds, args.connections, args.workers, client, args.rounds,
+                   args.postgres)  # fmt: skip
     finally:
         shutil.rmtree(work, ignore_errors=True)
+        if args.postgres:
+            postgres_schema(args.postgres, drop=True)
 
 
 def _median_run(runs: list[Load]) -> Load:
@@ -387,14 +412,15 @@ def _median_run(runs: list[Load]) -> Load:
 
 def run(
     work: Path, seconds: float, connections: int, worker_counts: list[int], client: str,
-    rounds: int,
+    rounds: int, postgres: str | None = None,
 ) -> int:  # fmt: skip
     import httpx
 
+    database = "PostgreSQL" if postgres else "SQLite"
     print(f"Warmstead load test: {connections} connections, {rounds} rounds of {seconds:.0f} s "
-          f"per page, client {client}, {os.cpu_count()} CPUs, loopback only; load average "
-          f"before: {os.getloadavg()[0]:.2f}")  # fmt: skip
-    setup = prepare(work)
+          f"per page, client {client}, {os.cpu_count()} CPUs, {database}, loopback only; load "
+          f"average before: {os.getloadavg()[0]:.2f}")  # fmt: skip
+    setup = prepare(work, postgres)
     compare_path = f"/houses/{setup.house_id}/compare"
     body = json.dumps(setup.document).encode()
     rows: list[tuple[str, int, Load]] = []

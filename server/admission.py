@@ -136,7 +136,7 @@ class AdmissionGate:
             release()
 
     def _too_large_text(self) -> str:
-        return f"the request body is larger than {self.max_body_bytes // (1024 * 1024)} MB"
+        return f"the request body is larger than {_size_text(self.max_body_bytes)}"
 
 
 class BodyTooLarge(Exception):
@@ -180,6 +180,14 @@ async def _read_prefix(receive: Receive, limit: int) -> tuple[bytes | None, bool
             return b"".join(chunks), True
         if size >= limit:
             return b"".join(chunks), False
+
+
+def _size_text(size: int) -> str:
+    """25 MB, 64 kB, 900 bytes: what a person reads in the refusal."""
+    for unit, factor in (("MB", 1024 * 1024), ("kB", 1024)):
+        if size >= factor:
+            return f"{size / factor:.3g} {unit}"
+    return f"{size} bytes"
 
 
 def _content_length(scope: Scope) -> int | None:

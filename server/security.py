@@ -147,15 +147,18 @@ def refresh_session(secret_key: str, data: SessionData) -> str:
     )
 
 
-def read_session(secret_key: str, value: str | None) -> SessionData | None:
-    """The session in a cookie value, or None when absent, tampered, idle too long or too old."""
-    if not value:
-        return None
+class _NotASession(Exception):
+    """A cookie value that is not a session this key signed (never kept by the cache)."""
+
+
+@lru_cache(maxsize=4096)
+def _signed_session(secret_key: str, value: str) -> SessionData:
+    """The signature checked and the payload read, once per cookie value (a signed-in user
+    sends the same value on every request until it is refreshed). Only valid values are kept:
+    a failure raises, and lru_cache keeps no exceptions. Time limits are not checked here."""
     try:
-        payload, issued = _serializer(secret_key, SESSION_SALT).loads(
-            value, max_age=SESSION_IDLE_SECONDS, return_timestamp=True
-        )
-        data = SessionData(
+        payload, issued = _serializer(secret_key, SESSION_SALT).loads(value, return_timestamp=True)
+        return SessionData(
             user_id=int(payload["u"]),
             session_version=int(payload["v"]),
             nonce=str(payload["n"]),
@@ -163,8 +166,22 @@ def read_session(secret_key: str, value: str | None) -> SessionData | None:
             issued_at=issued.timestamp(),
         )
     except (BadData, KeyError, TypeError, ValueError):
+        raise _NotASession from None
+
+
+def read_session(secret_key: str, value: str | None) -> SessionData | None:
+    """The session in a cookie value, or None when absent, tampered, idle too long or too old."""
+    if not value:
         return None
-    if clock() - data.signed_in_at > SESSION_ABSOLUTE_SECONDS:
+    try:
+        data = _signed_session(secret_key, value)
+    except _NotASession:
+        return None
+    now = clock()
+    age = int(now) - int(data.issued_at)  # as itsdangerous' max_age check counts it
+    if age > SESSION_IDLE_SECONDS or age < 0:
+        return None
+    if now - data.signed_in_at > SESSION_ABSOLUTE_SECONDS:
         return None
     return data
 

@@ -30,9 +30,19 @@ ERROR_RESPONSES: dict[int | str, dict[str, Any]] = {
         "model": ErrorBody,
         "description": "The body could not be read at all (e.g. bytes that are not text).",
     },
+    413: {
+        "model": ErrorBody,
+        "description": "The body is larger than the server takes (WARMSTEAD_MAX_BODY_BYTES, "
+        "25 MB unless set otherwise).",
+    },
     422: {
         "model": ErrorBody,
         "description": "The body is not valid JSON, or an input cannot be computed; the body says which.",
+    },
+    503: {
+        "model": ErrorBody,
+        "description": "The server is busy: the request waited 30 s for its turn. Try again after "
+        "the Retry-After header's seconds.",
     },
 }
 

@@ -150,3 +150,23 @@ def test_headers_for_shared_and_other_pages() -> None:
         assert "unsafe-inline" not in csp and "unsafe-eval" not in csp
         assert "frame-ancestors 'none'" in csp
     assert not security.is_shared_view("/settings/x") and not security.is_shared_view("/sx")
+
+
+def test_the_kept_signature_check_still_applies_every_time_limit(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # read_session keeps the checked signature per cookie value (security._signed_session);
+    # the idle and age limits are still applied on every read, and only valid values are kept.
+    now = 1_900_000_000.0
+    monkeypatch.setattr(security, "clock", lambda: now)
+    value = security.issue_session(SECRET, user_id=8, session_version=2)
+    assert security.read_session(SECRET, value) is not None  # checked and kept
+    monkeypatch.setattr(security, "clock", lambda: now - 1)  # signed "in the future"
+    assert security.read_session(SECRET, value) is None
+    monkeypatch.setattr(security, "clock", lambda: now + 43_201)
+    assert security.read_session(SECRET, value) is None
+    before = security._signed_session.cache_info().currsize
+    for forged in (value[:-2] + "xx", value + "a", "not-a-cookie"):
+        assert security.read_session(SECRET, forged) is None
+    assert security._signed_session.cache_info().currsize == before  # failures never kept
+    assert security.read_session("another key", value) is None

@@ -229,7 +229,7 @@ def test_a_body_over_the_limit_gets_413_by_header_or_by_count() -> None:
     (s1, h1, b1), (s2, h2, b2), (s3, _h3, _b3) = run(scenario())
     assert s1 == 413
     assert h1[b"content-type"] == b"application/json"
-    assert json.loads(b1)["detail"].startswith("the request body is larger than")
+    assert json.loads(b1)["detail"] == "the request body is larger than 10 bytes"
     assert s2 == 413 and h2[b"content-type"].startswith(b"text/plain")
     assert s3 == 200  # exactly at the limit is taken
 
@@ -288,3 +288,26 @@ def test_static_files_and_the_health_check_never_wait() -> None:
         return inside
 
     assert run(scenario()) == 3  # both went in although the one place was taken
+
+
+def test_the_app_answers_an_oversized_api_body_in_its_error_shape(db_url: str) -> None:
+    # Through the whole app: 413 in the API's documented ErrorBody shape, security headers on.
+    from fastapi.testclient import TestClient
+
+    from server.api.errors import ErrorBody
+
+    app = create_app(Settings(environment="test", database_url=db_url, max_body_bytes=1000))
+    try:
+        with TestClient(app) as client:
+            response = client.post("/api/v1/calc/house", content=b"{" + b" " * 2000 + b"}",
+                                   headers={"Content-Type": "application/json"})  # fmt: skip
+            small = client.post("/api/v1/calc/assembly", json={"layers": []})
+        assert response.status_code == 413
+        body = ErrorBody.model_validate(response.json())
+        assert body.detail == "the request body is larger than 1000 bytes"
+        assert response.headers["x-content-type-options"] == "nosniff"
+        assert small.status_code == 422  # under the limit: the route's own answer
+        schema = app.openapi()["paths"]["/api/v1/calc/house"]["post"]["responses"]
+        assert {"413", "422", "503"} <= set(schema)
+    finally:
+        app.state.engine.dispose()

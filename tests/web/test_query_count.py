@@ -3,10 +3,10 @@
 Statements are counted with SQLAlchemy's ``before_cursor_execute`` event on the app's engine
 during one GET, on SQLite and on PostgreSQL (the ``db_url`` fixture). A 3-surface house and a
 40-surface house with 5 upgrades per surface and 6 packages cost the same: a first view (which
-computes) 6 statements when this was written (the signed-in user, the house row with the firm's
-price-book stamp, the firm's materials, then surfaces, upgrades and packages, one statement
-each), a second view of the unchanged house 3 (the computed page is kept, see
-server/web/compare_cache.py). The bound asserted is 10.
+computes) 7 statements when this was written (the signed-in user, the house row's key columns
+with the firm's price-book stamp, the firm's materials, the rest of the house row, then
+surfaces, upgrades and packages, one statement each), a second view of the unchanged house 3
+(the computed page is kept, see server/web/compare_cache.py). The bound asserted is 10.
 """
 
 from __future__ import annotations
