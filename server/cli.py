@@ -243,6 +243,11 @@ def main(argv: list[str] | None = None) -> int:
         migrate()
         print(f"database ready ({time.perf_counter() - started:.2f} s)")
     elif args.command == "demo":
+        if get_settings().environment == "production":
+            print("warmstead demo: refused with WARMSTEAD_ENVIRONMENT=production: the demo "
+                  "sign-ins have published passwords. Create real users on the Users page.",
+                  file=sys.stderr)  # fmt: skip
+            return 1
         house_id = demo()
         from server.services.demo import DEMO_ACCOUNTS
 

@@ -281,6 +281,27 @@ def set_active(*, session: Session, admin: User, user_id: int, active: bool) -> 
     return user
 
 
+def change_own_password(
+    *, session: Session, user: User, current: str, new: str, repeat: str, client: str
+) -> User:
+    """A signed-in user sets their own password. The current one must be given (a device left
+    signed in is not enough), with the sign-in form's rate limit on wrong tries; all their
+    other sessions end (``session_version`` moves on). Raises :class:`RateLimited`."""
+    check_rate_limit(session=session, email=user.email, client=client)
+    if not verify_password(user.password_hash, current):
+        record_attempt(session=session, email=user.email, client=client, succeeded=False)
+        raise InputError("current_password", "that is not your current password")
+    check_password_rules(new, field="new_password")
+    if new != repeat:
+        raise InputError("repeat_password", "the two new passwords differ; type the same one twice")
+    if new == current:
+        raise InputError("new_password", "choose a password other than your current one")
+    user.password_hash = hash_password(new)
+    user.session_version += 1
+    session.flush()
+    return user
+
+
 def end_all_sessions(*, session: Session, user: User) -> None:
     """Sign the user out on every device (bumps ``session_version``)."""
     user.session_version += 1

@@ -187,7 +187,7 @@ def test_the_kept_page_shows_each_viewer_their_own_name_role_and_token(
     for i, (token, html) in enumerate(pages):
         role, name = people[i]
         shown = name.replace("<", "&lt;").replace(">", "&gt;") or f"person{i}@example.com"
-        assert f"Signed in as <strong>{shown}</strong>" in html
+        assert f"<strong>{shown}</strong></a>" in html
         assert html.count(token) == 2  # hx-headers on <body> and the sign-out form
         assert ("/admin/users" in html) == (role == "admin")
         for j, (other_token, _other) in enumerate(pages):

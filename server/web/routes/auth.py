@@ -1,4 +1,4 @@
-"""Sign in, sign out, and the firm admin's Users page."""
+"""Sign in, sign out, your own account (password), and the firm admin's Users page."""
 
 from __future__ import annotations
 
@@ -108,6 +108,57 @@ def logout(
     response.headers.append(
         "set-cookie", expired_cookie_header(SESSION_COOKIE, secure=_secure(request))
     )
+    return response
+
+
+ACCOUNT_DONE = {
+    "password": "Password changed. You are still signed in here; every other device is signed "
+    "out and needs the new password.",
+}
+
+
+def _account_page(request: Request, user: User, *, errors: dict[str, str] | None = None,
+                  message: str = "", status_code: int = 200) -> Response:  # fmt: skip
+    # Typed passwords are never sent back into the form, right or wrong.
+    context = {"me": user, "errors": errors or {}, "message": message,
+               "min_length": accounts.PASSWORD_MIN, "nav": "account"}  # fmt: skip
+    return render(request, "pages/account.html", context, status_code=status_code)
+
+
+@router.get("/account", name="account")
+def account_page(request: Request, user: CurrentUser, done: str = "") -> Response:
+    return _account_page(request, user, message=ACCOUNT_DONE.get(done, ""))
+
+
+@router.post("/account/password")
+def change_password(
+    request: Request,
+    session: SessionDep,
+    user: CurrentUser,
+    current_password: str = Form(""),
+    new_password: str = Form(""),
+    repeat_password: str = Form(""),
+) -> Response:
+    try:
+        accounts.change_own_password(session=session, user=user, current=current_password,
+                                     new=new_password, repeat=repeat_password,
+                                     client=_client(request))  # fmt: skip
+    except accounts.RateLimited as exc:
+        minutes = max(1, round(exc.retry_after / 60))
+        error = {"current_password": f"too many wrong tries; wait about {minutes} minute"
+                                     f"{'s' if minutes != 1 else ''} and try again"}  # fmt: skip
+        response = _account_page(request, user, errors=error, status_code=429)
+        response.headers["Retry-After"] = str(exc.retry_after)
+        return response
+    except InputError as exc:
+        return _account_page(request, user, errors={exc.field: exc.message}, status_code=422)
+    # This device stays signed in: a new cookie for the new session version, same sign-in time.
+    data = request.state.session_data
+    value = issue_session(request.app.state.settings.secret_key, user_id=user.id,
+                          session_version=user.session_version, signed_in_at=data.signed_in_at)  # fmt: skip
+    response = RedirectResponse("/account?done=password", status_code=303)
+    response.headers.append("set-cookie", session_cookie_header(
+        value, signed_in_at=data.signed_in_at, secure=_secure(request)))  # fmt: skip
     return response
 
 
