@@ -2,11 +2,18 @@
 
 Accessible (role="img", <title>, <desc>), no script, escaped text, deterministic. Values are
 labelled in text on the chart so nothing depends on colour alone.
+
+Each chart comes in two layouts, both in the page: ``wide`` (640 units across, labels beside
+the bars, names beside the lines) and ``narrow`` (360 across, labels above the bars, names in
+a key below the lines), and static/app.css shows the narrow one on screens under 600 px. A
+640-unit chart squeezed onto a phone showed its 13-unit text at about 6.6 px.
 """
 
 from __future__ import annotations
 
 from html import escape
+
+from markupsafe import Markup
 
 INK, MUTED, BAR, ALT, GRID = "#1b2730", "#4d5b66", "#245a63", "#b5651d", "#d5dadd"
 SERIES = ["#245a63", "#b5651d", "#5a4a8a", "#2f7d3a", "#8a2f4a", "#3b6ea8", "#7a6a1f"]
@@ -16,20 +23,40 @@ def _money(value: float, symbol: str) -> str:
     return f"{'−' if value < 0 else ''}{symbol}{abs(value):,.0f}"
 
 
-def _svg(width: int, height: int, title: str, desc: str, body: str) -> str:
+def _svg(width: int, height: int, title: str, desc: str, body: str, font: int = 13) -> str:
     return (
         f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {width} {height}" role="img" '
-        f'aria-labelledby="t d" font-family="system-ui, sans-serif" font-size="13">'
+        f'font-family="system-ui, sans-serif" font-size="{font}">'
         f"<title>{escape(title)}</title><desc>{escape(desc)}</desc>{body}</svg>"
     )
 
 
-def bar_chart(rows: list[tuple[str, float, str]], *, title: str, unit: str = "") -> str:
-    """Horizontal bars: (label, value, value text)."""
+def both_layouts(wide: str, narrow: str) -> Markup:
+    """The two layouts of one chart; CSS shows one (``.chart-wide`` / ``.chart-narrow``)."""
+    return Markup(f'<div class="chart-wide">{wide}</div><div class="chart-narrow">{narrow}</div>')
+
+
+def bar_chart(
+    rows: list[tuple[str, float, str]], *, title: str, unit: str = "", layout: str = "wide"
+) -> str:
+    """Horizontal bars: (label, value, value text). ``layout="narrow"`` puts labels above."""
+    top = max((v for _, v, _ in rows), default=0) or 1.0
+    desc = "; ".join(f"{label}: {text}" for label, _, text in rows)
+    desc += f" ({unit})" if unit else ""
+    parts = []
+    if layout == "narrow":
+        width, row_h = 360, 42
+        for i, (label, value, text) in enumerate(rows):
+            y = 6 + i * row_h
+            w = max(0.0, value) / top * (width - 84)
+            parts.append(
+                f'<text x="0" y="{y + 15}" fill="{INK}">{escape(label[:40])}</text>'
+                f'<rect x="0" y="{y + 21}" width="{w:.1f}" height="14" fill="{BAR}" rx="2"/>'
+                f'<text x="{w + 6:.1f}" y="{y + 33}" fill="{INK}">{escape(text)}</text>'
+            )
+        return _svg(width, row_h * len(rows) + 8, title, desc, "".join(parts), font=15)
     width, row_h, label_w = 640, 30, 210
     height = row_h * len(rows) + 20
-    top = max((v for _, v, _ in rows), default=0) or 1.0
-    parts = []
     for i, (label, value, text) in enumerate(rows):
         y = 10 + i * row_h
         w = max(0.0, value) / top * (width - label_w - 110)
@@ -38,13 +65,19 @@ def bar_chart(rows: list[tuple[str, float, str]], *, title: str, unit: str = "")
             f'<rect x="{label_w}" y="{y + 5}" width="{w:.1f}" height="{row_h - 10}" fill="{BAR}" rx="2"/>'
             f'<text x="{label_w + w + 6:.1f}" y="{y + 19}" fill="{INK}">{escape(text)}</text>'
         )
-    desc = "; ".join(f"{label}: {text}" for label, _, text in rows)
-    return _svg(width, height, title, desc + (f" ({unit})" if unit else ""), "".join(parts))
+    return _svg(width, height, title, desc, "".join(parts))
 
 
-def cash_flow_chart(series: list[tuple[str, list[float]]], *, title: str, money: str = "$") -> str:
-    """Cumulative discounted cash flow by year, one line per package; zero line marked."""
-    width, height, left, right, top, bottom = 640, 300, 70, 150, 20, 40
+def cash_flow_chart(
+    series: list[tuple[str, list[float]]], *, title: str, money: str = "$", layout: str = "wide"
+) -> str:
+    """Cumulative discounted cash flow by year, one line per package; zero line marked.
+    ``layout="narrow"`` names the lines in a key below the plot instead of beside it."""
+    narrow = layout == "narrow"
+    if narrow:
+        width, height, left, right, top, bottom = 360, 230, 74, 12, 14, 40
+    else:
+        width, height, left, right, top, bottom = 640, 300, 70, 150, 20, 40
     values = [v for _, ys in series for v in ys] or [0.0]
     lo, hi = min(min(values), 0.0), max(max(values), 0.0)
     if hi == lo:
@@ -82,9 +115,17 @@ def cash_flow_chart(series: list[tuple[str, list[float]]], *, title: str, money:
                 f'<circle cx="{x(crossing):.1f}" cy="{y(ys[crossing]):.1f}" r="4" fill="{colour}"/>'
             )
         end = ys[-1] if ys else 0.0
-        parts.append(
-            f'<text x="{width - right + 6}" y="{y(end) + 4 + 14 * (i % 2):.1f}" fill="{colour}">{escape(label[:18])}</text>'
-        )
+        if narrow:  # a key below the plot: a short line in the series' colour and dash
+            ky = height + 10 + 22 * i
+            parts.append(
+                f'<line x1="0" y1="{ky - 5}" x2="28" y2="{ky - 5}" stroke="{colour}" '
+                f'stroke-width="2.5"{dash}/><text x="36" y="{ky}" fill="{INK}">'
+                f"{escape(label[:36])}: ends at {_money(end, money)}</text>"
+            )
+        else:
+            parts.append(
+                f'<text x="{width - right + 6}" y="{y(end) + 4 + 14 * (i % 2):.1f}" fill="{colour}">{escape(label[:18])}</text>'
+            )
         desc.append(
             f"{label}: starts at {_money(ys[0], money)}, "
             + (
@@ -94,4 +135,7 @@ def cash_flow_chart(series: list[tuple[str, list[float]]], *, title: str, money:
             )
             + f", ends at {_money(end, money)}"
         )
+    if narrow:
+        return _svg(width, height + 22 * len(series) + 4, title, "; ".join(desc),
+                    "".join(parts), font=14)  # fmt: skip
     return _svg(width, height, title, "; ".join(desc), "".join(parts))

@@ -45,7 +45,7 @@ def _pages(page, base: str) -> dict[str, str]:  # type: ignore[no-untyped-def]
     return {
         "houses": "/houses", "house": house.removeprefix(base), "surface": surface,
         "upgrade": upgrade, "compare": house.removeprefix(base) + "/compare",
-        "library": "/library", "pipes": "/tools/pipe",
+        "library": "/library", "pipes": "/tools/pipe", "account": "/account",
     }  # fmt: skip
 
 
@@ -70,6 +70,33 @@ def test_pages_fit_and_have_big_labelled_targets(
             problems.append(f"{name}: page scrolls sideways by {overflow}px: {page.evaluate(WIDE)}")
     page.close()
     assert not problems, "\n".join(problems)
+
+
+# the smallest chart text as drawn: font size in the SVG's units x drawn width / viewBox width
+CHART_TEXT_PX = """
+() => [...document.querySelectorAll('figure svg')].filter(s => s.getBoundingClientRect().width > 0)
+  .map(s => {
+    const scale = s.getBoundingClientRect().width / s.viewBox.baseVal.width;
+    const sizes = [...s.querySelectorAll('text')].map(t => parseFloat(getComputedStyle(t).fontSize));
+    return Math.min(...sizes) * scale;
+  })
+"""
+
+
+@pytest.mark.parametrize("size", list(VIEWPORTS))
+def test_chart_text_is_readable_at_both_sizes(
+    browser, live_server: str, signed_in, size: str
+) -> None:  # type: ignore[no-untyped-def]
+    # 11 px is the smallest chart text we accept on a tablet held at arm's length (common
+    # practice for labels; body text is 16 px). Before the narrow layouts, a phone drew it at
+    # about 6.6 px.
+    width, height = VIEWPORTS[size]
+    page = browser.new_page(storage_state=signed_in, viewport={"width": width, "height": height})
+    page.goto(live_server + _pages(page, live_server)["compare"])
+    sizes = page.evaluate(CHART_TEXT_PX)
+    page.close()
+    assert len(sizes) == 3, sizes  # one layout of each chart shows, never both
+    assert min(sizes) >= 11, sizes
 
 
 def test_edit_survives_a_dropped_connection(browser, live_server: str, signed_in) -> None:  # type: ignore[no-untyped-def]

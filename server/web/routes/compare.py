@@ -11,7 +11,7 @@ from server.services.cautions import GENERAL, cautions_for
 from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
-from server.web.charts import bar_chart, cash_flow_chart
+from server.web.charts import bar_chart, both_layouts, cash_flow_chart
 from server.web.compare_cache import cached_compare_context, fragment_html, house_row, page_html
 from server.web.deps import OrgDep, SessionDep, run_unit
 
@@ -56,16 +56,24 @@ def build_compare_context(house, catalog, chosen: list[str]) -> dict:  # type: i
         "chosen": chosen,
         "upgrades": house.upgrades,
         "ua_unit": ua_unit,
-        "share_svg": bar_chart(share_rows, title="Share of heat loss by surface, as found"),
-        "cost_svg": bar_chart(cost_rows, title="Annual energy cost: as found and each package"),
-        "flow_svg": cash_flow_chart(
-            flows, title="Cumulative discounted cash flow (crosses zero at payback)"
-        )
+        "share_svg": _bars(share_rows, "Share of heat loss by surface, as found"),
+        "cost_svg": _bars(cost_rows, "Annual energy cost: as found and each package"),
+        "flow_svg": _flows(flows, "Cumulative discounted cash flow (crosses zero at payback)")
         if flows
         else "",
         "cautions": cautions_for(kinds, extra_topics=topics),
         "general_caution": GENERAL,
     }
+
+
+def _bars(rows: list, title: str) -> Markup:
+    return both_layouts(bar_chart(rows, title=title), bar_chart(rows, title=title, layout="narrow"))
+
+
+def _flows(flows: list, title: str) -> Markup:
+    return both_layouts(
+        cash_flow_chart(flows, title=title), cash_flow_chart(flows, title=title, layout="narrow")
+    )
 
 
 @router.get("/houses/{house_id}/compare", name="compare")
