@@ -67,11 +67,15 @@ class AdmissionGate:
         self.queue_timeout_s = queue_timeout_s
         self.stats = GateStats()
         self._places: asyncio.Semaphore | None = None
+        self._loop: asyncio.AbstractEventLoop | None = None
 
     def _semaphore(self) -> asyncio.Semaphore:
-        # made on first use, inside the running loop (uvicorn builds the app before its loop)
-        if self._places is None:
-            self._places = asyncio.Semaphore(self.limit)
+        # Made on first use inside the running loop (uvicorn builds the app before its loop
+        # runs), and again if the app is served by a new loop (an in-process test client
+        # starts one per session): an asyncio semaphore belongs to one loop.
+        loop = asyncio.get_running_loop()
+        if self._places is None or self._loop is not loop:
+            self._places, self._loop = asyncio.Semaphore(self.limit), loop
         return self._places
 
     async def __call__(self, scope: Scope, receive: Receive, send: Send) -> None:

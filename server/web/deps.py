@@ -27,6 +27,7 @@ from jinja2 import pass_context
 from markupsafe import Markup
 from sqlalchemy.orm import Session
 from starlette.concurrency import run_in_threadpool
+from starlette.datastructures import FormData
 
 from server.config import ROOT
 from server.models import Organization, User
@@ -194,6 +195,20 @@ async def get_organization(
 
 
 OrgDep = Annotated[Organization, Depends(get_organization)]
+
+
+async def posted_form(request: Request) -> FormData:
+    """The posted form, read on the event loop before the route runs.
+
+    So that routes taking a form can be plain ``def`` routes, which FastAPI runs in the
+    threadpool: an ``async def`` route doing its database work would hold up every other
+    request of the process while a statement waited (a SQLite write may wait seconds for the
+    file's lock). tests/conftest.py fails any test whose statements run on the event loop.
+    """
+    return await request.form()
+
+
+PostedForm = Annotated[FormData, Depends(posted_form)]
 
 
 async def signed_in_gate(request: Request, session: SessionDep) -> None:

@@ -311,3 +311,20 @@ def test_the_app_answers_an_oversized_api_body_in_its_error_shape(db_url: str) -
         assert {"413", "422", "503"} <= set(schema)
     finally:
         app.state.engine.dispose()
+
+
+def test_one_gate_serves_one_loop_after_another() -> None:
+    # In-process test clients start a new event loop each time; the gate must follow (an
+    # asyncio semaphore bound to the first loop would fail in the second under contention).
+    gate = AdmissionGate(Probe(), limit=1, max_body_bytes=1000)
+
+    async def contended() -> list[int]:
+        probe = gate.app = Probe()  # its events belong to this loop; the gate is the same
+        probe.hold.clear()
+        tasks = [asyncio.create_task(call(gate, f"/x/{i}")) for i in range(3)]
+        await asyncio.sleep(0.02)
+        probe.hold.set()
+        return [status for status, _h, _b in await asyncio.gather(*tasks)]
+
+    assert run(contended()) == [200, 200, 200]
+    assert run(contended()) == [200, 200, 200]

@@ -10,7 +10,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.services import houses as svc
 from server.services.climate import compute_degree_days
-from server.web.deps import OrgDep, SessionDep, render
+from server.web.deps import OrgDep, PostedForm, SessionDep, render
 from server.web.forms import form_version
 from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
 
@@ -47,13 +47,18 @@ def _respond(request: Request, session, org, house, ctx: dict, status: int):  # 
 
 
 @router.post("/houses/{house_id}/settings/{section}")
-async def save_section(
-    request: Request, session: SessionDep, org: OrgDep, house_id: int, section: str
+def save_section(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    posted: PostedForm,
+    house_id: int,
+    section: str,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if section not in SECTIONS:
         raise svc.NotFound
-    data = {k: str(v) for k, v in (await request.form()).items()}
+    data = {k: str(v) for k, v in posted.items()}
     version = form_version(data)
     stored = getattr(house, COLUMNS[section]) or {}
     doc, errors = parse_section(section, data)
@@ -109,14 +114,19 @@ def _with_balance_point(house, doc: dict, data: dict[str, str], errors: dict[str
 
 
 @router.post("/houses/{house_id}/weather")
-async def upload_weather(
-    request: Request, session: SessionDep, org: OrgDep, house_id: int, file: UploadFile
+def upload_weather(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    form: PostedForm,
+    house_id: int,
+    file: UploadFile,
 ):  # type: ignore[no-untyped-def]
-    """Read a weather file (EPW, TMY3 or CSV) into the house's climate."""
+    """Read a weather file (EPW, TMY3 or CSV) into the house's climate (a sync route: the
+    upload is already spooled by the time it runs, so ``file.file`` is read directly)."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    form = await request.form()
     version = form_version({"version": str(form.get("version", ""))})
-    data = await file.read(MAX_WEATHER_BYTES + 1)
+    data = file.file.read(MAX_WEATHER_BYTES + 1)
     try:
         if len(data) > MAX_WEATHER_BYTES:
             raise InputError(

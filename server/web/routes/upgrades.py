@@ -16,7 +16,7 @@ from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
-from server.web.deps import OrgDep, SessionDep, render
+from server.web.deps import OrgDep, PostedForm, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
@@ -35,7 +35,9 @@ def _number(
     return parse_float(text, key, errors, positive=False)
 
 
-def _upgrade_context(session, org, house, upgrade, form=None, result=None, message="", errors=None, catalog=None):  # type: ignore[no-untyped-def]
+def _upgrade_context(
+    session, org, house, upgrade, form=None, result=None, message="", errors=None, catalog=None
+):  # type: ignore[no-untyped-def]
     if catalog is None:
         catalog = catalog_for(session=session, organization_id=org.id)
     surface = next((s for s in house.surfaces if s.id == upgrade.surface_id), None)
@@ -72,9 +74,11 @@ def _upgrade_context(session, org, house, upgrade, form=None, result=None, messa
 
 
 @router.post("/houses/{house_id}/upgrades")
-async def add_upgrade(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+def add_upgrade(
+    request: Request, session: SessionDep, org: OrgDep, posted: PostedForm, house_id: int
+):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    data = {k: str(v) for k, v in (await request.form()).items()}
+    data = {k: str(v) for k, v in posted.items()}
     errors: dict[str, str] = {}
     try:
         if data.get("kind") == "air_sealing":
@@ -117,12 +121,17 @@ def upgrade_page(
 
 
 @router.post("/houses/{house_id}/upgrades/{upgrade_id}")
-async def update_upgrade(
-    request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
+def update_upgrade(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    posted: PostedForm,
+    house_id: int,
+    upgrade_id: int,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
-    data = {k: str(v) for k, v in (await request.form()).items()}
+    data = {k: str(v) for k, v in posted.items()}
     errors: dict[str, str] = {}
     try:
         if data.get("action") == "delete":
@@ -150,14 +159,19 @@ async def update_upgrade(
 
 
 @router.post("/houses/{house_id}/upgrades/{upgrade_id}/assembly")
-async def save_upgrade_assembly(
-    request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
+def save_upgrade_assembly(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    posted: PostedForm,
+    house_id: int,
+    upgrade_id: int,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
     if upgrade.document.get("assembly") is None:
         raise svc.NotFound
-    data = {k: str(v) for k, v in (await request.form()).items()}
+    data = {k: str(v) for k, v in posted.items()}
     catalog = catalog_for(session=session, organization_id=org.id)
 
     def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
@@ -176,9 +190,10 @@ async def save_upgrade_assembly(
 
 
 @router.post("/houses/{house_id}/packages")
-async def add_package(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+def add_package(
+    request: Request, session: SessionDep, org: OrgDep, form: PostedForm, house_id: int
+):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    form = await request.form()
     data = {k: str(v) for k, v in form.items()}
     errors: dict[str, str] = {}
     try:
