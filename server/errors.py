@@ -10,7 +10,8 @@ errors into HTTP 422 with the body::
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import dataclasses
+from dataclasses import dataclass
 
 
 @dataclass
@@ -25,7 +26,7 @@ class InputError(Exception):
 
     field: str
     message: str
-    more: list[FieldError] = field(default_factory=list)
+    more: list[FieldError] = dataclasses.field(default_factory=list)
 
     def __str__(self) -> str:  # pragma: no cover - repr helper
         return f"{self.field}: {self.message}"

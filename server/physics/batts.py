@@ -69,7 +69,7 @@ def batt_in_cavity(
         f"The batt is compressed to {ratio:.0%} of its labelled thickness: its R drops to about "
         f"{ratio**COMPRESSION_EXPONENT:.0%} of the label (estimate)."
     )
-    extra = ()
+    extra: tuple[str, ...] = ()
     if ratio < MIN_TRUSTED_RATIO:
         extra = ("Compression below half the labelled thickness is outside the estimate's range.",)
     return BattFit(r_si, ratio, True, (note, *extra))

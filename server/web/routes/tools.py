@@ -28,7 +28,7 @@ _SIGNED = ("fluid_temperature", "ambient_temperature")
 
 
 def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest | None:
-    units = form.get("units") if form.get("units") in ("ip", "si") else "ip"
+    units = "si" if form.get("units") == "si" else "ip"
     values: dict[str, float | None] = {}
     for key in PIPE_DEFAULTS["ip"]:
         if key == "units":

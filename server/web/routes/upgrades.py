@@ -2,10 +2,13 @@
 
 from __future__ import annotations
 
+from typing import cast
+
 from fastapi import APIRouter, Request
 from fastapi.responses import RedirectResponse
 
 from server.documents.assembly import AssemblyInput
+from server.documents.common import Units
 from server.errors import InputError
 from server.services import houses as svc
 from server.services import upgrades as upg
@@ -178,7 +181,8 @@ def save_upgrade_assembly(
         return upg.save_upgrade_assembly(session=session, house=house, upgrade=upgrade, assembly=doc,
                                          catalog=catalog, expected_version=version)  # fmt: skip
 
-    form, result, message, status = run_editor(data, units=house.units, save=save)
+    units = cast(Units, house.units)  # the column holds only 'ip' or 'si'
+    form, result, message, status = run_editor(data, units=units, save=save)
     htmx = request.headers.get("HX-Request") == "true"
     if not htmx and status == 200:
         return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
