@@ -26,7 +26,7 @@ from __future__ import annotations
 
 from typing import Annotated, Literal
 
-from pydantic import Field, ValidationInfo, field_validator, model_validator
+from pydantic import ConfigDict, Field, ValidationInfo, field_validator, model_validator
 
 from server.documents.assembly import AssemblyInput
 from server.documents.common import Name, Number, Out, Positive, Strict, Units
@@ -320,7 +320,14 @@ class HouseDocument(Strict):
 # --- result ------------------------------------------------------------------------------------
 
 
-class SurfaceFigures(Out):
+class FiniteOut(Out):
+    """A part of the whole-house result: an infinite or NaN figure cannot be built (checked by
+    pydantic as each part is made, instead of walking the finished result)."""
+
+    model_config = ConfigDict(extra="ignore", allow_inf_nan=False)
+
+
+class SurfaceFigures(FiniteOut):
     """One surface in the result: R, U, UA and its share of the whole-house UA."""
 
     id: str
@@ -333,7 +340,7 @@ class SurfaceFigures(Out):
     share_of_ua: float = Field(description="fraction of the house's UA (envelope + air)")
 
 
-class PipeFigures(Out):
+class PipeFigures(FiniteOut):
     """One pipe run: per-length resistance and heat loss, annual loss (Btu or kWh)."""
 
     id: str
@@ -344,7 +351,7 @@ class PipeFigures(Out):
     annual_loss: float
 
 
-class HouseFigures(Out):
+class HouseFigures(FiniteOut):
     """A year of the house in the document's units (ip: Btu/(h·°F), Btu; si: W/K, kWh)."""
 
     ua: float = Field(description="envelope + infiltration, per degree")
@@ -370,7 +377,7 @@ class HouseFigures(Out):
     co2: float = Field(description="kg per year")
 
 
-class StepFigures(Out):
+class StepFigures(FiniteOut):
     """What one upgrade saves on the house that already has the package's earlier upgrades."""
 
     upgrade: str
@@ -379,7 +386,7 @@ class StepFigures(Out):
     co2_avoided: float
 
 
-class CashFlowFigures(Out):
+class CashFlowFigures(FiniteOut):
     """Cumulative cash flow, year 0..N; the chart draws ``cumulative_discounted``."""
 
     years: list[int]
@@ -415,7 +422,7 @@ class OptionFigures(HouseFigures):
     warnings: list[str] = []
 
 
-class FuelFigures(Out):
+class FuelFigures(FiniteOut):
     """The fuel row used, with its sources."""
 
     fuel: str
@@ -430,7 +437,7 @@ class FuelFigures(Out):
     electricity_co2_source: str
 
 
-class HouseResult(Out):
+class HouseResult(FiniteOut):
     """As found, each package, and each upgrade alone."""
 
     units: Units

@@ -20,6 +20,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
+from pydantic import ValidationError
+
 from server.documents.assembly import AssemblyInput, AssemblyResult
 from server.documents.house import (
     CashFlowFigures,
@@ -451,6 +453,9 @@ def _fuel(doc: HouseDocument, house: model.House) -> FuelFigures:
     )
 
 
+TOO_LARGE = "these inputs give numbers too large to compute; check areas, R and prices"
+
+
 def compute_house(
     doc: HouseDocument, *, catalog: Catalog | None = None, upgrades_alone: bool = True
 ) -> HouseResult:
@@ -482,39 +487,30 @@ def compute_house(
     by_id = {u.id: u for u in upgrades}
     upgrade_names = {u.id: u.name for u in doc.upgrades}
     package_names = {p.id: p.name for p in doc.packages}
-    result = HouseResult(
-        units=doc.units,
-        currency=doc.currency,
-        as_found=HouseFigures(**_figures(doc, house, comparison.as_found)),
-        packages=[
-            _option(doc, house, by_id, comparison.as_found, option, package_names[option.id])
-            for option in comparison.packages
-        ],
-        upgrades=[
-            _option(doc, house, by_id, comparison.as_found, option, upgrade_names[option.id])
-            for option in comparison.upgrades_alone
-        ],
-        fuel=_fuel(doc, house),
-        analysis_years=doc.economics.years,
-        step_order=STEP_ORDER,
-        assumptions=list(ASSUMPTIONS),
-        warnings=build.warnings,
-    )
-    _refuse_non_finite(result.model_dump())
-    return result
-
-
-def _refuse_non_finite(value: object) -> None:
-    """A last guard: inputs at the edge of their ranges must not produce inf or NaN."""
-    if isinstance(value, float) and not math.isfinite(value):
-        raise InputError(
-            "body", "these inputs give numbers too large to compute; check areas, R and prices"
+    try:
+        result = HouseResult(
+            units=doc.units,
+            currency=doc.currency,
+            as_found=HouseFigures(**_figures(doc, house, comparison.as_found)),
+            packages=[
+                _option(doc, house, by_id, comparison.as_found, option, package_names[option.id])
+                for option in comparison.packages
+            ],
+            upgrades=[
+                _option(doc, house, by_id, comparison.as_found, option, upgrade_names[option.id])
+                for option in comparison.upgrades_alone
+            ],
+            fuel=_fuel(doc, house),
+            analysis_years=doc.economics.years,
+            step_order=STEP_ORDER,
+            assumptions=list(ASSUMPTIONS),
+            warnings=build.warnings,
         )
-    if isinstance(value, dict):
-        value = list(value.values())
-    if isinstance(value, list):
-        for item in value:
-            _refuse_non_finite(item)
+    except ValidationError as exc:  # the result parts refuse inf and NaN (FiniteOut)
+        if any(error["type"] == "finite_number" for error in exc.errors()):
+            raise InputError("body", TOO_LARGE) from None
+        raise
+    return result
 
 
 def _variable_base(vb, units: str):  # type: ignore[no-untyped-def]
