@@ -108,12 +108,13 @@ CACHE = _Cache()
 
 
 def _weight_kb(context: dict[str, Any]) -> int:
-    """About 1.4 kB per surface row of each option kept, plus ~150 kB of rendered HTML."""
+    """About 1.4 kB per surface row of each option kept, plus ~300 kB of rendered HTML (the
+    body, and the whole page per role: 60-75 kB each for the largest houses)."""
     result = context.get("result")
     if result is None:
         return 1
     options = 1 + len(result.packages) + len(result.upgrades)
-    return int(1.4 * options * (len(result.as_found.surfaces) + 1)) + 150
+    return int(1.4 * options * (len(result.as_found.surfaces) + 1)) + 300
 
 
 def _catalog_key(catalog: Catalog) -> Hashable:
