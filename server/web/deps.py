@@ -211,6 +211,15 @@ async def posted_form(request: Request) -> FormData:
 PostedForm = Annotated[FormData, Depends(posted_form)]
 
 
+async def posted_fields(form: PostedForm) -> dict[str, str]:
+    """The posted form's fields as text, one value per name (the last, as a form read gives):
+    what the page routes parse. Routes that need repeated names or files take PostedForm."""
+    return {name: str(value) for name, value in form.items()}
+
+
+PostedFields = Annotated[dict[str, str], Depends(posted_fields)]
+
+
 async def signed_in_gate(request: Request, session: SessionDep) -> None:
     """App-wide: every route outside :func:`is_public` needs a signed-in user."""
     if is_public(request.url.path):

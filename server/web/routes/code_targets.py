@@ -8,7 +8,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.physics.code_targets import SURFACE_KINDS
 from server.services.firm_code_targets import own_keys, reset_row, rows_for, save_row
-from server.web.deps import OrgDep, PostedForm, SessionDep, render
+from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.forms import parse_float
 
 router = APIRouter()
@@ -33,8 +33,7 @@ def code_targets_page(request: Request, session: SessionDep, org: OrgDep):  # ty
 
 
 @router.post("/code-targets")
-def save_code_target(request: Request, session: SessionDep, org: OrgDep, posted: PostedForm):  # type: ignore[no-untyped-def]
-    data = {k: str(v) for k, v in posted.items()}
+def save_code_target(request: Request, session: SessionDep, org: OrgDep, data: PostedFields):  # type: ignore[no-untyped-def]
     errors: dict[str, str] = {}
     try:
         zone = int(data.get("climate_zone", ""))

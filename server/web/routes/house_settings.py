@@ -10,7 +10,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.services import houses as svc
 from server.services.climate import compute_degree_days
-from server.web.deps import OrgDep, PostedForm, SessionDep, render
+from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.forms import form_version
 from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
 
@@ -51,14 +51,13 @@ def save_section(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     section: str,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if section not in SECTIONS:
         raise svc.NotFound
-    data = {k: str(v) for k, v in posted.items()}
     version = form_version(data)
     stored = getattr(house, COLUMNS[section]) or {}
     doc, errors = parse_section(section, data)

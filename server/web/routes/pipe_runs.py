@@ -8,7 +8,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.services import houses as svc
 from server.services import upgrades as upg
-from server.web.deps import OrgDep, PostedForm, SessionDep, render
+from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.forms import form_version, parse_float, parse_length_field
 
 router = APIRouter()
@@ -34,10 +34,9 @@ def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, s
 
 @router.post("/houses/{house_id}/pipes")
 def add_pipe_run(
-    request: Request, session: SessionDep, org: OrgDep, posted: PostedForm, house_id: int
+    request: Request, session: SessionDep, org: OrgDep, data: PostedFields, house_id: int
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    data = {k: str(v) for k, v in posted.items()}
     values, errors = parse_pipe_form(data, house.units)
     if not errors:
         layers = (
@@ -68,7 +67,7 @@ def insulate_pipe(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     surface_id: int,
 ):  # type: ignore[no-untyped-def]
@@ -76,7 +75,6 @@ def insulate_pipe(
     surface = svc.get_surface(
         session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
     )
-    data = {k: str(v) for k, v in posted.items()}
     errors: dict[str, str] = {}
     thickness = parse_length_field(data.get("thickness", ""), house.units, "thickness", errors)
     conductivity = parse_float(data.get("conductivity", ""), "conductivity", errors)

@@ -15,7 +15,7 @@ from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
-from server.web.deps import OrgDep, PostedForm, SessionDep, render
+from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
 from server.web.layer_form import (
@@ -116,12 +116,11 @@ def save_assembly(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     surface_id: int,
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
-    data = {k: str(v) for k, v in posted.items()}
     catalog = catalog_for(session=session, organization_id=org.id)
 
     def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
@@ -145,12 +144,11 @@ def update_surface(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     surface_id: int,
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
-    data = {k: str(v) for k, v in posted.items()}
     version = form_version(data)
     if data.get("action") == "delete":
         svc.delete_surface(session=session, house=house, surface=surface, expected_version=version)

@@ -9,7 +9,7 @@ from server.api.errors import field_path
 from server.documents.pipe import PipeRequest
 from server.errors import InputError
 from server.services.pipe import compute_pipe
-from server.web.deps import render
+from server.web.deps import PostedFields, render
 from server.web.forms import parse_float, parse_length_field
 
 router = APIRouter()
@@ -79,8 +79,7 @@ def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-d
 
 
 @router.post("/tools/pipe")
-async def pipe_compute(request: Request):  # type: ignore[no-untyped-def]
-    form = {k: str(v) for k, v in (await request.form()).items()}
+def pipe_compute(request: Request, form: PostedFields):  # type: ignore[no-untyped-def]
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
     result = None

@@ -19,7 +19,7 @@ from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
-from server.web.deps import OrgDep, PostedForm, SessionDep, render
+from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
@@ -78,10 +78,9 @@ def _upgrade_context(
 
 @router.post("/houses/{house_id}/upgrades")
 def add_upgrade(
-    request: Request, session: SessionDep, org: OrgDep, posted: PostedForm, house_id: int
+    request: Request, session: SessionDep, org: OrgDep, data: PostedFields, house_id: int
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    data = {k: str(v) for k, v in posted.items()}
     errors: dict[str, str] = {}
     try:
         if data.get("kind") == "air_sealing":
@@ -128,13 +127,12 @@ def update_upgrade(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     upgrade_id: int,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
-    data = {k: str(v) for k, v in posted.items()}
     errors: dict[str, str] = {}
     try:
         if data.get("action") == "delete":
@@ -166,7 +164,7 @@ def save_upgrade_assembly(
     request: Request,
     session: SessionDep,
     org: OrgDep,
-    posted: PostedForm,
+    data: PostedFields,
     house_id: int,
     upgrade_id: int,
 ):  # type: ignore[no-untyped-def]
@@ -174,7 +172,6 @@ def save_upgrade_assembly(
     upgrade = upg.get_upgrade(house, upgrade_id)
     if upgrade.document.get("assembly") is None:
         raise svc.NotFound
-    data = {k: str(v) for k, v in posted.items()}
     catalog = catalog_for(session=session, organization_id=org.id)
 
     def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
@@ -195,10 +192,14 @@ def save_upgrade_assembly(
 
 @router.post("/houses/{house_id}/packages")
 def add_package(
-    request: Request, session: SessionDep, org: OrgDep, form: PostedForm, house_id: int
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    form: PostedForm,
+    data: PostedFields,
+    house_id: int,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    data = {k: str(v) for k, v in form.items()}
     errors: dict[str, str] = {}
     try:
         if data.get("action", "").startswith("delete:"):
