@@ -28,8 +28,7 @@ from __future__ import annotations
 
 import asyncio
 import json
-import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from starlette.types import ASGIApp, Message, Receive, Scope, Send
 
@@ -42,7 +41,7 @@ PREBUFFER_BYTES = 1024 * 1024
 
 @dataclass
 class GateStats:
-    """Counters for tests and the benchmark (per process)."""
+    """Counters, per process (read by tests)."""
 
     admitted: int = 0
     waited: int = 0
@@ -50,7 +49,6 @@ class GateStats:
     refused_too_large: int = 0
     peak_active: int = 0
     active: int = 0
-    wait_s: list[float] = field(default_factory=list, repr=False)
 
 
 class AdmissionGate:
@@ -98,7 +96,6 @@ class AdmissionGate:
         replay = _Replay(first, complete, receive, self.max_body_bytes)
 
         places = self._semaphore()
-        began = time.perf_counter()
         if places.locked():
             self.stats.waited += 1
         try:
@@ -109,13 +106,10 @@ class AdmissionGate:
             await _refuse(send, scope, 503, "the server is busy; try again in a few seconds",
                           headers=((b"retry-after", b"5"),))  # fmt: skip
             return
-        waited = time.perf_counter() - began
         stats = self.stats
         stats.admitted += 1
         stats.active += 1
         stats.peak_active = max(stats.peak_active, stats.active)
-        if len(stats.wait_s) < 100_000:
-            stats.wait_s.append(waited)
         held = True
 
         def release() -> None:
