@@ -111,18 +111,10 @@ BENCH_SCHEMA = f"warmstead_bench_{os.getpid()}"
 
 def postgres_schema(base_url: str, *, drop: bool = False) -> str:
     """A fresh schema of its own on ``base_url`` (the URL that uses it), or drop it."""
-    from sqlalchemy import text
+    from tests.utils.postgres import drop_schema, reset_schema, schema_url
 
-    from server.db import make_engine
-
-    engine = make_engine(base_url)
-    with engine.begin() as conn:
-        conn.execute(text(f'DROP SCHEMA IF EXISTS "{BENCH_SCHEMA}" CASCADE'))
-        if not drop:
-            conn.execute(text(f'CREATE SCHEMA "{BENCH_SCHEMA}"'))
-    engine.dispose()
-    sep = "&" if "?" in base_url else "?"
-    return f"{base_url}{sep}options=-csearch_path%3D{BENCH_SCHEMA}"
+    (drop_schema if drop else reset_schema)(base_url, BENCH_SCHEMA)
+    return schema_url(base_url, BENCH_SCHEMA)
 
 
 def prepare(directory: Path, postgres: str | None = None) -> Setup:

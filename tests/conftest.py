@@ -48,6 +48,7 @@ from server.security import (  # noqa: E402
     issue_session,
     read_session,
 )
+from tests.utils.postgres import drop_schema, reset_schema, schema_url  # noqa: E402
 
 TEST_PASSWORD = "test-password-0123"
 #: argon2id with small parameters, for test users (the app's defaults take ~0.2 s a hash here)
@@ -74,23 +75,15 @@ def _pg_reachable() -> str | None:
 
 
 def pg_schema_url(schema: str) -> str:
-    sep = "&" if "?" in PG_URL else "?"
-    return f"{PG_URL}{sep}options=-csearch_path%3D{schema}"
+    return schema_url(PG_URL, schema)
 
 
 def reset_pg_schema(schema: str) -> None:
-    engine = make_engine(PG_URL)
-    with engine.begin() as conn:
-        conn.execute(text(f'DROP SCHEMA IF EXISTS "{schema}" CASCADE'))
-        conn.execute(text(f'CREATE SCHEMA "{schema}"'))
-    engine.dispose()
+    reset_schema(PG_URL, schema)
 
 
 def drop_pg_schema(schema: str) -> None:
-    engine = make_engine(PG_URL)
-    with engine.begin() as conn:
-        conn.execute(text(f'DROP SCHEMA IF EXISTS "{schema}" CASCADE'))
-    engine.dispose()
+    drop_schema(PG_URL, schema)
 
 
 @pytest.fixture(scope="session")
