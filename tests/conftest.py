@@ -48,6 +48,7 @@ from server.security import (  # noqa: E402
     issue_session,
     read_session,
 )
+from tests.utils.loop_probe import statements_on_the_event_loop  # noqa: E402
 from tests.utils.postgres import drop_schema, reset_schema, schema_url  # noqa: E402
 
 TEST_PASSWORD = "test-password-0123"
@@ -124,31 +125,10 @@ def db_url(request: pytest.FixtureRequest, tmp_path: Path) -> Iterator[str]:
     engine.dispose()
 
 
-def _statements_on_the_event_loop(engine) -> list[str]:  # type: ignore[no-untyped-def]
-    """Record every statement ``engine`` runs from inside an asyncio task (an async route or
-    dependency): the app's database work belongs in the threadpool."""
-    import asyncio
-
-    from sqlalchemy import event
-
-    seen: list[str] = []
-
-    def record(_conn, _cursor, statement, _params, _context, _many):  # type: ignore[no-untyped-def]
-        try:
-            in_task = asyncio.current_task() is not None
-        except RuntimeError:  # no loop in this thread: a threadpool worker, or the test itself
-            in_task = False
-        if in_task:
-            seen.append(statement.split("\n", 1)[0][:120])
-
-    event.listen(engine, "before_cursor_execute", record)
-    return seen
-
-
 @pytest.fixture
 def app(db_url: str):  # type: ignore[no-untyped-def]
     application = create_app(Settings(environment="test", database_url=db_url))
-    on_loop = _statements_on_the_event_loop(application.state.engine)
+    on_loop = statements_on_the_event_loop(application.state.engine)
     yield application
     application.state.engine.dispose()
     # Every test through the app checks this: a statement on the event loop stalls every other

@@ -24,6 +24,7 @@ from server.documents.house import HouseDocument
 from server.services.house_document import import_house
 from tests.utils.auth import create_signed_in_user, session_headers
 from tests.utils.houses import big_house_document
+from tests.utils.loop_probe import statements_on_the_event_loop
 
 MAX_STATEMENTS = 10
 
@@ -100,27 +101,6 @@ def test_compare_page_with_a_selection_costs_no_more_per_upgrade(
     assert len(chosen) <= len(plain), (len(plain), len(chosen))
 
 
-@contextmanager
-def on_the_event_loop(engine: Any) -> Iterator[list[str]]:
-    """Statements run on a thread with a running event loop (a route must hop off it first)."""
-    import asyncio
-
-    statements: list[str] = []
-
-    def record(_conn, _cursor, statement, _params, _context, _many):  # type: ignore[no-untyped-def]
-        try:
-            asyncio.get_running_loop()
-        except RuntimeError:
-            return  # a threadpool thread: fine
-        statements.append(statement)
-
-    event.listen(engine, "before_cursor_execute", record)
-    try:
-        yield statements
-    finally:
-        event.remove(engine, "before_cursor_execute", record)
-
-
 def test_no_page_waits_on_the_database_on_the_event_loop(
     app: Any, signed_in: tuple[int, dict[str, str]]
 ) -> None:
@@ -131,12 +111,11 @@ def test_no_page_waits_on_the_database_on_the_event_loop(
     house_id = _import(app, org_id, big_house_document(surfaces=3, upgrades_per_surface=2))
     paths = [f"/houses/{house_id}/compare", f"/houses/{house_id}/compare",
              f"/houses/{house_id}", "/houses", f"/houses/{house_id}/compare?pick=s0-u0"]  # fmt: skip
+    blocking = statements_on_the_event_loop(app.state.engine)
     with TestClient(app) as client:
         for path in paths:
-            with counted(app.state.engine) as everything, on_the_event_loop(
-                app.state.engine
-            ) as blocking:
+            with counted(app.state.engine) as everything:
                 response = client.get(path, headers=headers)
             assert response.status_code == 200, (path, response.text[:300])
-            assert everything, path  # the probe saw this page's statements
+            assert everything, path  # this page's statements were seen
             assert blocking == [], (path, blocking)
