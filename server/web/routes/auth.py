@@ -41,6 +41,12 @@ def _client(request: Request) -> str:
     return request.client.host if request.client else "unknown"
 
 
+def _wait_text(retry_after_s: int) -> str:
+    """'about 1 minute', 'about 15 minutes': a rate limit's wait in words."""
+    minutes = max(1, round(retry_after_s / 60))
+    return f"about {minutes} minute{'s' if minutes != 1 else ''}"
+
+
 def _login_page(request: Request, *, email: str = "", next_path: str = "", error: str = "",
                 status_code: int = 200, headers: dict[str, str] | None = None) -> Response:  # fmt: skip
     settings = request.app.state.settings
@@ -75,8 +81,7 @@ def login(
             session=session, email=email, password=password, client=_client(request)
         )
     except accounts.RateLimited as exc:
-        minutes = max(1, round(exc.retry_after / 60))
-        message = (f"Too many tries. Wait about {minutes} minute{'s' if minutes != 1 else ''}, "
+        message = (f"Too many tries. Wait {_wait_text(exc.retry_after)}, "
                    "then try again, or ask your firm's admin to reset your password.")  # fmt: skip
         return _login_page(request, email=email.strip(), next_path=next_path, error=message,
                            status_code=429, headers={"Retry-After": str(exc.retry_after)})  # fmt: skip
@@ -144,9 +149,8 @@ def change_password(
                                      new=new_password, repeat=repeat_password,
                                      client=_client(request))  # fmt: skip
     except accounts.RateLimited as exc:
-        minutes = max(1, round(exc.retry_after / 60))
-        error = {"current_password": f"too many wrong tries; wait about {minutes} minute"
-                                     f"{'s' if minutes != 1 else ''} and try again"}  # fmt: skip
+        error = {"current_password": f"too many wrong tries; wait {_wait_text(exc.retry_after)} "
+                                     "and try again"}  # fmt: skip
         response = _account_page(request, user, errors=error, status_code=429)
         response.headers["Retry-After"] = str(exc.retry_after)
         return response
