@@ -20,6 +20,7 @@ from hypothesis import strategies as st
 
 from server.app import create_app
 from server.config import Settings
+from tests.utils.examples import API_WALL_IP
 
 app = create_app(Settings(environment="test", database_url="sqlite://"))
 client = TestClient(app)
@@ -33,22 +34,7 @@ R_FACTOR = 0.1761102  # published: 1 h·ft²·°F/Btu in m²·K/W
 K_FACTOR = 0.1442279  # published: 1 Btu·in/(h·ft²·°F) in W/(m·K)
 RSI_PER_R = 5.678263  # published: RSI = R / 5.678263
 
-EXAMPLE_IP: dict[str, Any] = {
-    "units": "ip",
-    "heat_flow": "horizontal",
-    "films": "ashrae",
-    "layers": [
-        {"name": "siding", "r": 0.62},
-        {"name": "sheathing", "thickness": 0.4375, "r": 0.62},
-        {
-            "name": "stud bay",
-            "thickness": 3.5,
-            "cavity": {"r": 13.0},
-            "framing": {"conductivity": 0.80, "fraction": 0.25},
-        },
-        {"name": "drywall", "thickness": 0.5, "conductivity": 1.11},
-    ],
-}
+EXAMPLE_IP: dict[str, Any] = copy.deepcopy(API_WALL_IP)
 
 # The same wall converted by hand with the published factors:
 # R 0.62 x 0.1761102 = 0.1091883; 0.4375 in x 25.4 = 11.1125 mm; 3.5 in = 88.9 mm;

@@ -14,6 +14,7 @@ from fastapi.testclient import TestClient
 from server.app import create_app
 from server.config import Settings
 from server.services.convert import convert_assembly
+from tests.utils.examples import API_WALL_IP
 
 client = TestClient(create_app(Settings(environment="test", database_url="sqlite://")))
 URL = "/api/v1/calc/house"
@@ -36,21 +37,7 @@ ATTIC_R49 = {
         DRYWALL,
     ],
 }
-WALL = {  # the assembly of API.md's /calc/assembly example (r_parallel_path 11.85)
-    "heat_flow": "horizontal",
-    "films": "ashrae",
-    "layers": [
-        {"name": "siding", "r": 0.62},
-        {"name": "sheathing", "thickness": 0.4375, "r": 0.62},
-        {
-            "name": "stud bay",
-            "thickness": 3.5,
-            "cavity": {"r": 13.0},
-            "framing": {"conductivity": 0.80, "fraction": 0.25},
-        },
-        {"name": "drywall", "thickness": 0.5, "conductivity": 1.11},
-    ],
-}
+WALL = {k: v for k, v in copy.deepcopy(API_WALL_IP).items() if k != "units"}  # API.md's example (r_parallel_path 11.85)
 DOC_IP = {
     "units": "ip",
     "climate": {"hdd": 5400, "cdd": 900, "heating_base": 65, "cooling_base": 65},

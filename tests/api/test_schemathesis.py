@@ -15,6 +15,7 @@ plus schemathesis's coverage cases for the calculators (about 2,000 requests in 
 
 from __future__ import annotations
 
+import copy
 import os
 import re
 import tempfile
@@ -31,6 +32,7 @@ from server.app import create_app
 from server.cli import migrate
 from server.config import Settings
 from tests.utils.auth import signed_in_headers
+from tests.utils.examples import API_WALL_IP
 
 MAX_EXAMPLES = 30
 CHECKS = [
@@ -117,22 +119,7 @@ def test_every_api_operation_is_fuzzed(api_schema: Any) -> None:
 
 # --- known-good documents: the 200 answers must match the schema too ------------------------
 
-WALL_IP = {  # ../shared/API.md, POST /api/v1/calc/assembly
-    "units": "ip",
-    "heat_flow": "horizontal",
-    "films": "ashrae",
-    "layers": [
-        {"name": "siding", "r": 0.62},
-        {"name": "sheathing", "thickness": 0.4375, "r": 0.62},
-        {
-            "name": "stud bay",
-            "thickness": 3.5,
-            "cavity": {"r": 13.0},
-            "framing": {"conductivity": 0.80, "fraction": 0.25},
-        },
-        {"name": "drywall", "thickness": 0.5, "conductivity": 1.11},
-    ],
-}
+WALL_IP = copy.deepcopy(API_WALL_IP)  # ../shared/API.md, POST /api/v1/calc/assembly
 PIPE_SI = {  # ../shared/API.md, POST /api/v1/calc/pipe
     "units": "si",
     "pipe_outer_diameter": 22.0,
