@@ -401,7 +401,7 @@ class OptionFigures(HouseFigures):
     id: str
     name: str
     upgrades: list[str]
-    annual_savings: float = Field(description="first year: as-found cost - this house's cost")
+    annual_savings: float = Field(description="a year at today's prices (the base date of NIST Handbook 135; later years escalate from it): as-found cost - this house's cost")
     installed_cost: float
     rebates: float
     net_cost: float = Field(description="installed cost - rebates")

@@ -1,10 +1,13 @@
 """Money side of an upgrade: simple payback, present value, NPV, SIR, loan payment, cash flow.
 
-Conventions (NIST Handbook 135 [1]): costs occur at year 0; savings occur at the end of each
-year t = 1..N; the first-year savings ``s`` escalate at rate ``e`` per year, so year t saves
-``s · (1 + e)^(t-1)``; everything is discounted at rate ``d``. Use ``d`` and ``e`` on the same
-basis (both real, or both nominal) [1, ch. 4]. Money is a plain number in the caller's
-currency.
+Conventions (NIST Handbook 135 [1]): costs occur at year 0 (the base date); savings occur at
+the end of each year t = 1..N; the annual savings ``s`` are priced at base-date (today's) fuel
+prices and escalate from the base date at rate ``e`` per year, so year t saves
+``s · (1 + e)^t``; everything is discounted at rate ``d``. The present value of the savings is
+then ``s · UPV*`` with NIST 135's modified uniform present value factor
+``UPV* = Σ_{t=1..N} ((1 + e) / (1 + d))^t`` [1, ch. 4]. Use ``d`` and ``e`` on the same basis
+(both real, or both nominal) [1, ch. 4]. Simple payback divides by ``s`` itself (today's
+prices), as NIST 135 defines it [1, ch. 6]. Money is a plain number in the caller's currency.
 
 References
 ----------
@@ -44,13 +47,16 @@ def _years(years: int) -> int:
 def _yearly_factors(
     discount_rate: float, escalation_rate: float, years: int
 ) -> list[tuple[float, float]]:
-    """``((1 + e)^(t-1), (1 + d)^-t)`` for t = 1..N, refusing rates that overflow."""
+    """``((1 + e)^t, (1 + d)^-t)`` for t = 1..N, refusing rates that overflow.
+
+    Escalation runs from the base date, as in NIST Handbook 135's UPV* [1, ch. 4].
+    """
     _rate(discount_rate, "the discount rate")
     _rate(escalation_rate, "the escalation rate")
     factors = []
     for t in range(1, _years(years) + 1):
         try:
-            pair = ((1.0 + escalation_rate) ** (t - 1), (1.0 + discount_rate) ** -t)
+            pair = ((1.0 + escalation_rate) ** t, (1.0 + discount_rate) ** -t)
         except (OverflowError, ZeroDivisionError):
             pair = (math.inf, math.inf)
         if not all(math.isfinite(x) and 0 < x < 1e200 for x in pair):
@@ -62,14 +68,14 @@ def _yearly_factors(
 
 
 def simple_payback_years(net_cost: float, annual_savings: float) -> float | None:
-    """Simple payback [years] = net cost / first-year savings [1, ch. 6].
+    """Simple payback [years] = net cost / annual savings at today's prices [1, ch. 6].
 
     Parameters
     ----------
     net_cost : float
         Installed cost minus rebates [money].
     annual_savings : float
-        First-year savings [money/year].
+        Annual savings at base-date (today's) prices [money/year].
 
     Returns
     -------
@@ -89,12 +95,14 @@ def present_value_of_savings(
 ) -> float:
     """Present value of escalating annual savings [money] [1, ch. 4].
 
-    ``PV = Σ_{t=1..N} s · (1 + e)^(t-1) / (1 + d)^t``
+    ``PV = Σ_{t=1..N} s · (1 + e)^t / (1 + d)^t = s · UPV*`` (NIST 135's modified uniform
+    present value factor: escalation from the base date).
 
     Parameters
     ----------
     annual_savings : float
-        First-year savings ``s`` [money/year], received at the end of year 1.
+        Annual savings ``s`` at base-date (today's) prices [money/year]; year t receives
+        ``s · (1 + e)^t`` at its end.
     discount_rate : float
         Discount rate ``d`` [1/year], in (-1, 1).
     escalation_rate : float
@@ -118,7 +126,7 @@ def net_present_value(
 ) -> float:
     """Net present value (NIST 135 "net savings") [money] [1, ch. 6].
 
-    ``NPV = -C + Σ_{t=1..N} s · (1 + e)^(t-1) / (1 + d)^t`` with ``C`` the net cost at year 0.
+    ``NPV = -C + Σ_{t=1..N} s · (1 + e)^t / (1 + d)^t`` with ``C`` the net cost at year 0.
     """
     _finite(net_cost, "the net cost")
     return -net_cost + present_value_of_savings(
@@ -184,9 +192,9 @@ class CashFlow:
     years : tuple of int
         0, 1, ..., N.
     cumulative : tuple of float
-        ``-C + Σ_{t<=y} s(1+e)^(t-1)`` (undiscounted).
+        ``-C + Σ_{t<=y} s(1+e)^t`` (undiscounted).
     cumulative_discounted : tuple of float
-        ``-C + Σ_{t<=y} s(1+e)^(t-1)/(1+d)^t``; its last value is the NPV.
+        ``-C + Σ_{t<=y} s(1+e)^t/(1+d)^t``; its last value is the NPV.
     """
 
     years: tuple[int, ...]
@@ -272,7 +280,7 @@ def appraise(
     loan_apr: float | None = None,
     loan_months: int | None = None,
 ) -> Appraisal:
-    """All the money figures of one option from its cost, rebates and first-year savings [1].
+    """All the money figures of one option from its cost, rebates and annual savings (at today's prices) [1].
 
     ``C = installed - rebates``; simple payback ``C / s``; ``NPV = -C + PV``; ``SIR = PV / C``;
     the loan (when both ``loan_apr`` and ``loan_months`` are given) finances ``C``; monthly

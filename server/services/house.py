@@ -9,7 +9,7 @@ Rules decided here (the contract was silent):
   target above the as-found leakage.
 * Warnings (computed anyway): an assembly upgrade that does not lower the surface's U; air
   sealing to exactly the as-found figure; an upgrade expected to last less than the study
-  period; rebates above the cost; first-year savings of zero or less; the default N-factor.
+  period; rebates above the cost; savings of zero or less; the default N-factor.
 * Incremental savings of a package are in its listed order (see
   :func:`server.physics.house_model.evaluate_option`).
 * Pipe-run losses are bought at the heating system's fuel, efficiency and price.
@@ -395,7 +395,7 @@ def _option(
     modified = model.apply_upgrades(house, [upgrades[u] for u in option.upgrade_ids])
     warnings = list(option.warnings)
     if money.annual_savings <= 0:
-        warnings.append("saves nothing in the first year, so it never pays back")
+        warnings.append("saves nothing at today's prices, so it never pays back")
     flow = money.cash_flow
     return OptionFigures(
         **_figures(doc, modified, option.energy),

@@ -156,9 +156,10 @@ def test_package_ip(ip_result):
     assert package["net_cost"] == pytest.approx(2200.0, rel=1e-12)
     assert package["simple_payback_years"] == pytest.approx(2200.0 / s, rel=1e-12)
     assert package["monthly_savings"] == pytest.approx(s / 12, rel=1e-12)
-    # numpy-financial: pmt(0.06/12, 120, -2200) and npv(0.03, [-2200, s, s·1.02, ...]).
+    # numpy-financial: pmt(0.06/12, 120, -2200) and npv(0.03, [-2200, s·1.02, s·1.02², ...])
+    # (NIST Handbook 135: prices escalate from the base date, year t saves s·(1+e)^t).
     assert package["monthly_loan_payment"] == pytest.approx(npf.pmt(0.005, 120, -2200), 1e-9)
-    values = [-2200.0] + [s * 1.02 ** (t - 1) for t in range(1, 21)]
+    values = [-2200.0] + [s * 1.02**t for t in range(1, 21)]
     assert package["npv"] == pytest.approx(npf.npv(0.03, values), rel=1e-9)
     assert package["sir"] == pytest.approx((package["npv"] + 2200) / 2200, rel=1e-12)
     flow = package["cash_flow"]

@@ -41,9 +41,10 @@ def test_loan_term_matches_npf_nper(principal, apr, months):
 
 
 def test_npv_matches_npf_npv_hand_case():
-    # numpy-financial npv(0.03, [-2200, s, s·1.02, ..., s·1.02^19]) = 3234.06.
+    # numpy-financial npv(0.03, [-2200, s·1.02, s·1.02², ..., s·1.02^20]) = 3342.74 (NIST
+    # Handbook 135: prices escalate from the base date, so year t saves s·(1+e)^t).
     s = 306.5466790352505
-    values = [-2200.0] + [s * 1.02 ** (t - 1) for t in range(1, 21)]
+    values = [-2200.0] + [s * 1.02**t for t in range(1, 21)]
     assert econ.net_present_value(2200.0, s, 0.03, 0.02, 20) == pytest.approx(
         npf.npv(0.03, values), rel=1e-12
     )
@@ -58,8 +59,9 @@ def test_npv_matches_npf_npv_hand_case():
     years=st.integers(1, 60),
 )
 def test_npv_matches_npf_npv(net, savings, d, e, years):
-    # numpy-financial npv: values[0] at time 0, values[t] discounted by (1+d)^t.
-    values = [-net] + [savings * (1 + e) ** (t - 1) for t in range(1, years + 1)]
+    # numpy-financial npv: values[0] at time 0, values[t] discounted by (1+d)^t; year t saves
+    # s·(1+e)^t (NIST Handbook 135, escalation from the base date).
+    values = [-net] + [savings * (1 + e) ** t for t in range(1, years + 1)]
     expected = npf.npv(d, values)
     ours = econ.net_present_value(net, savings, d, e, years)
     assert ours == pytest.approx(expected, rel=1e-9, abs=1e-6)
@@ -77,7 +79,7 @@ def test_npv_is_zero_at_npf_irr():
     # numpy-financial irr of the package's cash flow: discounting at that rate gives NPV = 0,
     # and SIR = 1 there (NIST Handbook 135: the break-even of SIR is the IRR).
     s, net = 306.5466790352505, 2200.0
-    values = [-net] + [s * 1.02 ** (t - 1) for t in range(1, 21)]
+    values = [-net] + [s * 1.02**t for t in range(1, 21)]
     rate = float(npf.irr(values))
     assert 0.1 < rate < 0.2
     assert econ.net_present_value(net, s, rate, 0.02, 20) == pytest.approx(0.0, abs=1e-6)
@@ -87,7 +89,7 @@ def test_npv_is_zero_at_npf_irr():
 
 def test_cash_flow_end_point_matches_npf_npv():
     # The chart's discounted cumulative line ends at numpy-financial's NPV.
-    values = [-1500.0] + [200.0 * 1.03 ** (t - 1) for t in range(1, 16)]
+    values = [-1500.0] + [200.0 * 1.03**t for t in range(1, 16)]
     flow = econ.cash_flow(1500.0, 200.0, 0.04, 0.03, 15)
     assert flow.cumulative_discounted[-1] == pytest.approx(npf.npv(0.04, values), rel=1e-12)
     assert flow.cumulative[-1] == pytest.approx(sum(values), rel=1e-12)

@@ -1,7 +1,7 @@
 """Payback, present value, NPV, SIR, loan payment and cash flow (server.physics.economics).
 
-Hand-worked figures are those of the package in tests/unit/test_house_model.py: first-year
-savings s = $306.5467, net cost C = $2200, d = 3 %, e = 2 %, N = 20 years, loan 6 % / 10 years.
+Hand-worked figures are those of the package in tests/unit/test_house_model.py: annual
+savings at today's prices s = $306.5467, net cost C = $2200, d = 3 %, e = 2 %, N = 20 years, loan 6 % / 10 years.
 """
 
 from __future__ import annotations
@@ -35,14 +35,20 @@ def test_no_payback_without_savings():
 
 
 def test_present_value_hand_worked_against_nist_modified_upv():
-    # NIST Handbook 135 modified uniform present value factor, escalation from year 1:
-    #   UPV* = (1+e)/(d-e) · [1 - ((1+e)/(1+d))^N] = 1.02/0.01 · (1 - 0.822733) = 18.0813.
-    # Our year-1 savings are s (not s(1+e)), so PV = s · UPV* / (1+e) = s · 17.72689:
-    #   306.5467 × 17.72689 = 5434.06.
+    # NIST Handbook 135 (ch. 4) modified uniform present value factor, prices escalating from
+    # the base date: UPV* = Σ_{t=1..N} ((1+e)/(1+d))^t = (1+e)/(d-e) · [1 - ((1+e)/(1+d))^N]
+    #   = 1.02/0.01 · (1 - 0.822733) = 18.08123. The savings s are at base-date prices, so
+    #   PV = s · UPV* = 306.5467 × 18.08123 = 5542.74.
     upv_star = 1.02 / 0.01 * (1 - (1.02 / 1.03) ** 20)
     pv = econ.present_value_of_savings(SAVINGS, 0.03, 0.02, 20)
-    assert pv == pytest.approx(SAVINGS * upv_star / 1.02, rel=1e-12)
-    assert pv == pytest.approx(5434.0596, rel=1e-7)
+    assert pv == pytest.approx(SAVINGS * upv_star, rel=1e-12)
+    assert pv == pytest.approx(5542.7408, rel=1e-7)
+
+
+def test_year_one_saves_s_times_one_plus_e():
+    # NIST Handbook 135 convention: escalation starts at the base date, so the first year's
+    # savings are already escalated once: 100 × 1.02 = 102, discounted 102 / 1.03 = 99.0291.
+    assert econ.present_value_of_savings(100.0, 0.03, 0.02, 1) == pytest.approx(102 / 1.03, 1e-12)
 
 
 def test_present_value_without_escalation_is_nist_upv():
@@ -53,9 +59,9 @@ def test_present_value_without_escalation_is_nist_upv():
 
 
 def test_present_value_when_escalation_equals_discount():
-    # Limiting case d = e (the closed form divides by zero): each year is s/(1+d), so
-    # PV = N · s / (1+d) = 20 × 100 / 1.03 = 1941.748.
-    assert econ.present_value_of_savings(100.0, 0.03, 0.03, 20) == pytest.approx(1941.7476, 1e-7)
+    # Limiting case d = e (the closed form divides by zero): UPV* = Σ 1 = N, so
+    # PV = N · s = 20 × 100 = 2000.
+    assert econ.present_value_of_savings(100.0, 0.03, 0.03, 20) == pytest.approx(2000.0, 1e-12)
 
 
 def test_zero_rates_sum_the_savings():
@@ -64,11 +70,11 @@ def test_zero_rates_sum_the_savings():
 
 
 def test_npv_and_sir_hand_worked():
-    # NPV = -2200 + 5434.06 = 3234.06; SIR = 5434.06 / 2200 = 2.4700.
+    # NPV = -2200 + 5542.74 = 3342.74; SIR = 5542.74 / 2200 = 2.519428.
     npv = econ.net_present_value(NET_COST, SAVINGS, 0.03, 0.02, 20)
-    assert npv == pytest.approx(3234.0596, rel=1e-7)
+    assert npv == pytest.approx(3342.7408, rel=1e-7)
     assert econ.savings_to_investment_ratio(NET_COST, npv + NET_COST) == pytest.approx(
-        2.470027, 1e-6
+        2.519428, 1e-6
     )
 
 
@@ -100,12 +106,13 @@ def test_loan_refuses_bad_terms(apr, months):
 
 
 def test_cash_flow_hand_worked():
-    # Year 0: -1000; year 1: -1000 + 300 = -700; year 2: -700 + 300·1.1 = -370 (undiscounted);
-    # discounted at 10 %: -1000 + 300/1.1 = -727.27; -727.27 + 330/1.21 = -454.55.
+    # Prices escalate from the base date (NIST Handbook 135): year 1 saves 300·1.1 = 330,
+    # year 2 300·1.21 = 363. Undiscounted: -1000, -670, -307; discounted at 10 %:
+    # -1000 + 330/1.1 = -700; -700 + 363/1.21 = -400.
     flow = econ.cash_flow(1000.0, 300.0, 0.10, 0.10, 2)
     assert flow.years == (0, 1, 2)
-    assert flow.cumulative == pytest.approx((-1000.0, -700.0, -370.0), rel=1e-12)
-    assert flow.cumulative_discounted == pytest.approx((-1000.0, -727.2727, -454.5455), rel=1e-6)
+    assert flow.cumulative == pytest.approx((-1000.0, -670.0, -307.0), rel=1e-12)
+    assert flow.cumulative_discounted == pytest.approx((-1000.0, -700.0, -400.0), rel=1e-12)
 
 
 def test_payback_crossing_hand_worked():
@@ -129,13 +136,13 @@ def test_appraise_hand_worked_package():
     )
     assert result.net_cost == 2200.0
     assert result.simple_payback_years == pytest.approx(7.176721, rel=1e-6)
-    assert result.npv == pytest.approx(3234.0596, rel=1e-7)
-    assert result.sir == pytest.approx(2.470027, rel=1e-6)
+    assert result.npv == pytest.approx(3342.7408, rel=1e-7)
+    assert result.sir == pytest.approx(2.519428, rel=1e-6)
     assert result.monthly_loan_payment == pytest.approx(24.424510, rel=1e-7)
     assert result.monthly_savings == pytest.approx(25.545557, rel=1e-7)
     assert result.cash_flow.cumulative_discounted[-1] == pytest.approx(result.npv, rel=1e-12)
     # With escalation the undiscounted crossing comes before the simple payback: cumulative
-    # savings after 7 years = 306.5467 × (1.02^7 - 1)/0.02 = 2275.3 > 2200.
+    # savings after 7 years = 306.5467 × 1.02 × (1.02^7 - 1)/0.02 = 2324.5 > 2200.
     assert 6.0 < result.payback_year < result.simple_payback_years
 
 
