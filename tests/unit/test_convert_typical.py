@@ -6,6 +6,7 @@ import copy
 import json
 from typing import Any
 
+import pint
 import pytest
 
 from server.documents.assembly import AssemblyInput
@@ -13,6 +14,7 @@ from server.services.assembly import evaluate_assembly
 from server.services.convert import convert_assembly, convert_value
 from server.services.typical import DATA, typical_assemblies
 
+Q = pint.UnitRegistry().Quantity
 TYPICAL = typical_assemblies()
 SLUGS = sorted(TYPICAL)
 
@@ -91,9 +93,58 @@ def test_convert_hand_values() -> None:
     assert convert_value(13.0, "r", "ip", "ip") == 13.0
 
 
-def test_convert_result_validates_in_si() -> None:
-    for slug in SLUGS:
-        AssemblyInput.model_validate(convert_assembly(TYPICAL[slug].document_ip, "ip", "si"))
+#: the API.md unit of each converted layer field, ip and si, as pint spells them
+PINT_UNITS = {
+    "r": ("hr*ft**2*delta_degF/Btu_it", "m**2*K/W"),
+    "thickness": ("inch", "mm"),
+    "conductivity": ("Btu_it*inch/(hr*ft**2*delta_degF)", "W/(m*K)"),
+}
+PINT_FIELDS = {
+    ("r",): "r",
+    ("thickness",): "thickness",
+    ("conductivity",): "conductivity",
+    ("cavity", "r"): "r",
+    ("cavity", "conductivity"): "conductivity",
+    ("cavity", "batt", "r_nominal"): "r",
+    ("cavity", "batt", "thickness_nominal"): "thickness",
+    ("framing", "conductivity"): "conductivity",
+    ("framing", "spacing"): "thickness",  # on-centre spacing: inch <-> mm, as API.md's table
+}
+
+
+def _at(layer: dict[str, Any], path: tuple[str, ...]) -> Any:
+    for key in path:
+        layer = layer.get(key) if isinstance(layer, dict) else None  # type: ignore[assignment]
+    return layer
+
+
+@pytest.mark.parametrize("slug", SLUGS)
+def test_every_converted_field_matches_pint(slug: str) -> None:
+    # pint (outside source) converts each dimensional field of every typical assembly: a field
+    # mapped to the wrong quantity, or a wrong factor, fails here even though ip -> si -> ip
+    # would still round-trip. Fractions, names and lumber labels must come through unchanged.
+    ip = TYPICAL[slug].document_ip
+    si = convert_assembly(ip, "ip", "si")
+    AssemblyInput.model_validate(si)
+    seen = 0
+    for ip_layer, si_layer in zip(ip["layers"], si["layers"], strict=True):
+        for path, quantity in PINT_FIELDS.items():
+            value = _at(ip_layer, path)
+            if not isinstance(value, int | float):
+                continue
+            src, dst = PINT_UNITS[quantity]
+            expected = Q(value, src).to(dst).magnitude
+            assert _at(si_layer, path) == pytest.approx(expected, rel=1e-6), path
+            seen += 1
+        assert _at(si_layer, ("framing", "fraction")) == _at(ip_layer, ("framing", "fraction"))
+        assert _at(si_layer, ("framing", "lumber")) == _at(ip_layer, ("framing", "lumber"))
+    assert seen > 0
+    # every other number is a fraction or names its own unit (vapour_sd_m, in metres in both
+    # systems) and comes through unchanged
+    ip_numbers, si_numbers = _numbers(ip), _numbers(si)
+    unchanged = {k for k in si_numbers if k.endswith((".fraction", "_m", "_mu", ".mu"))}
+    assert len(si_numbers) - len(unchanged) == seen
+    assert all(si_numbers[k] == ip_numbers[k] for k in unchanged)
 
 
 # --- a few typical walls and ceilings by hand --------------------------------------------------
