@@ -40,6 +40,7 @@ from server.security import (
 )
 from server.services.houses import NotFound
 from server.web import web_router
+from server.web.conflicts import install_conflict_handlers
 from server.web.deps import (
     CsrfRejected,
     SignInRequired,
@@ -60,7 +61,9 @@ class SecurityMiddleware:
     sets the security headers, ``Cache-Control: no-store`` and any cookie to (re)issue.
 
     ``request.state.session_data`` is the verified cookie (who, which session version); the
-    database check (user active, version current) happens in :func:`server.web.deps.get_current_user`.
+    database check (user active, version current, session not signed out) happens in
+    :func:`server.web.deps.get_current_user`. An exception that escapes the app is answered
+    here (500, with the same headers) before it goes on to the server's log.
     """
 
     def __init__(self, app: ASGIApp, settings: Settings) -> None:
@@ -102,9 +105,12 @@ class SecurityMiddleware:
             if nonce is not None:
                 state["csrf_token"] = csrf_for_anon(secret, nonce)
         force_no_store = data is not None or is_shared_view(path)
+        started = False
 
         async def send_with_headers(message: Message) -> None:
+            nonlocal started
             if message["type"] == "http.response.start":
+                started = True
                 headers = MutableHeaders(scope=message)
                 for name, value in security_headers(path):
                     headers[name] = value
@@ -116,7 +122,27 @@ class SecurityMiddleware:
                         headers.append("set-cookie", header)
             await send(message)
 
-        await self.app(scope, receive, send_with_headers)
+        try:
+            await self.app(scope, receive, send_with_headers)
+        except Exception:
+            # Starlette's own 500 is made by its outermost middleware, outside this one, so it
+            # would go out without these headers: answer here, then let the error go on to be
+            # logged (that middleware sees the answer sent and sends nothing more).
+            if not started:
+                await _internal_error(path, send_with_headers)
+            raise
+
+
+async def _internal_error(path: str, send: Send) -> None:
+    """The 500 of an unhandled exception, saying nothing of it: JSON under /api/, else text."""
+    if path.startswith("/api/"):
+        body = b'{"detail": "internal server error", "errors": []}'
+        kind = b"application/json"
+    else:
+        body, kind = b"Internal Server Error", b"text/plain; charset=utf-8"
+    headers = [(b"content-type", kind), (b"content-length", str(len(body)).encode())]
+    await send({"type": "http.response.start", "status": 500, "headers": headers})
+    await send({"type": "http.response.body", "body": body})
 
 
 def _install_security_handlers(app: FastAPI) -> None:
@@ -167,6 +193,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     app.state.templates = make_templates(auto_reload=settings.environment == "development")
     install_error_handlers(app)
     _install_security_handlers(app)
+    install_conflict_handlers(app)
     # outermost first: security headers on every answer, gzip after the gate has let go
     app.add_middleware(
         AdmissionGate,

@@ -218,7 +218,28 @@ def _fsync_dir(directory: Path) -> None:
         os.close(fd)
 
 
+def settings_problem() -> str | None:
+    """Why the settings cannot be used, in plain words (None when they can): read before
+    anything starts, so that a refusal (production without a secret) is one clear line."""
+    from pydantic import ValidationError
+
+    try:
+        get_settings()
+    except ValidationError as exc:
+        return "; ".join(_problem_text(e["loc"], str(e["msg"])) for e in exc.errors())
+    return None
+
+
+def _problem_text(loc: tuple[int | str, ...], message: str) -> str:
+    message = message.removeprefix("Value error, ")
+    return f"WARMSTEAD_{str(loc[0]).upper()}: {message}" if loc else message
+
+
 def main(argv: list[str] | None = None) -> int:
+    problem = settings_problem()
+    if problem is not None:
+        print(f"warmstead: refusing to start: {problem}", file=sys.stderr)
+        return 1
     settings = get_settings()
     parser = argparse.ArgumentParser(
         prog="warmstead", description="Compare insulation upgrades on a house."

@@ -7,7 +7,9 @@ from contextlib import contextmanager
 
 from sqlalchemy import Engine, create_engine, event
 from sqlalchemy.engine import make_url
+from sqlalchemy.exc import DBAPIError
 from sqlalchemy.orm import Session, sessionmaker
+from sqlalchemy.orm.exc import StaleDataError
 from sqlalchemy.pool import StaticPool
 
 
@@ -55,6 +57,34 @@ def _sqlite_pragmas(dbapi_connection, _record) -> None:  # type: ignore[no-untyp
     cursor.execute("PRAGMA busy_timeout=15000")
     cursor.execute("PRAGMA synchronous=NORMAL")
     cursor.close()
+
+
+#: PostgreSQL SQLSTATEs of a write that lost to a concurrent one: serialization_failure,
+#: deadlock_detected, lock_not_available, unique_violation (PostgreSQL manual, Appendix A)
+_PG_RACE_STATES = frozenset({"40001", "40P01", "55P03", "23505"})
+#: SQLite result codes of the same (sqlite.org/rescode.html): SQLITE_BUSY and SQLITE_LOCKED
+#: with their extended codes ("database is locked" after the busy timeout), and a unique value
+_SQLITE_RACE_PREFIXES = ("SQLITE_BUSY", "SQLITE_LOCKED", "SQLITE_CONSTRAINT_UNIQUE")
+
+
+def lost_race(exc: BaseException) -> bool:
+    """Whether ``exc`` means another save got there first, not that this one is wrong.
+
+    True for an optimistic-lock miss (the row's version changed since it was read:
+    ``StaleDataError``), a unique value another request took a moment before, a PostgreSQL
+    serialization failure, deadlock or lock timeout, and SQLite's "database is locked" after
+    the busy timeout. Such a save is answered as a conflict (nothing stored, try again);
+    anything else is a real error.
+    """
+    if isinstance(exc, StaleDataError):
+        return True
+    if not isinstance(exc, DBAPIError):
+        return False
+    state = getattr(exc.orig, "sqlstate", None)
+    if state is not None:  # psycopg
+        return state in _PG_RACE_STATES
+    name = getattr(exc.orig, "sqlite_errorname", None)
+    return isinstance(name, str) and name.startswith(_SQLITE_RACE_PREFIXES)
 
 
 def make_session_factory(engine: Engine) -> sessionmaker[Session]:

@@ -87,6 +87,9 @@ class House(Base):
     cooling: Mapped[dict[str, Any] | None] = mapped_column(JSON, nullable=True)
     air_leakage: Mapped[dict[str, Any] | None] = mapped_column(JSON, nullable=True)
     economics: Mapped[dict[str, Any]] = mapped_column(JSON, default=dict)
+    #: unconditioned (buffer) spaces, ISO 13789: the house document's ``spaces`` as stored;
+    #: what each surface faces is its ``details["adjacent"]``
+    spaces: Mapped[list[Any] | None] = mapped_column(JSON, nullable=True)
     version: Mapped[int] = mapped_column(Integer, default=1)
     created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)
     updated_at: Mapped[datetime] = mapped_column(
@@ -182,6 +185,22 @@ class User(Base):
     last_login_at: Mapped[datetime | None] = mapped_column(DateTime(timezone=True))
 
 
+class RevokedSession(Base):
+    """A signed-out session: its cookie (any copy of it) is refused from now on.
+
+    Sign-out writes the cookie's per-sign-in nonce here; every signed-in request's user lookup
+    joins this table on that nonce (the same one query). Rows are kept until the session would
+    have ended anyway (7 days after its sign-in), then pruned.
+    """
+
+    __tablename__ = "revoked_sessions"
+
+    nonce: Mapped[str] = mapped_column(String(64), primary_key=True)
+    user_id: Mapped[int] = mapped_column(ForeignKey("users.id", ondelete="CASCADE"), index=True)
+    revoked_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)
+    expires_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), index=True)
+
+
 class LoginAttempt(Base):
     """One login try, kept to rate-limit by e-mail and by client address across processes."""
 
@@ -262,3 +281,29 @@ class CodeTargetRow(Base):
     updated_at: Mapped[datetime] = mapped_column(
         DateTime(timezone=True), default=utcnow, onupdate=utcnow
     )
+
+
+class IdempotencyKey(Base):
+    """A create form's one-time key, honoured once: a repeat of the same post (a retry after a
+    lost answer, a double tap) gets the first answer's redirect instead of a second row.
+
+    The key is random, put into the form when it is rendered; the unique constraint makes two
+    concurrent posts of one key store one row (the second insert fails and reads the first).
+    Rows are kept for :data:`server.services.idempotency.KEEP` and then pruned.
+    """
+
+    __tablename__ = "idempotency_keys"
+    __table_args__ = (
+        UniqueConstraint("organization_id", "user_id", "key", name="uq_idempotency_keys_org_user_key"),
+    )
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    organization_id: Mapped[int] = mapped_column(
+        ForeignKey("organizations.id", ondelete="CASCADE"), index=True
+    )
+    user_id: Mapped[int] = mapped_column(ForeignKey("users.id", ondelete="CASCADE"), index=True)
+    key: Mapped[str] = mapped_column(String(64))
+    purpose: Mapped[str] = mapped_column(String(40))
+    location: Mapped[str] = mapped_column(String(500))
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)
+    expires_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), index=True)

@@ -9,6 +9,11 @@ Decisions (see also DEVELOPERS.md):
   nonce and the sign-in time. Idle limit 12 h (the signature's timestamp; the cookie is re-signed
   at most every 5 min while in use), absolute limit 7 days from sign-in. A password reset,
   deactivation or "sign out everywhere" bumps ``session_version``, which kills every old cookie.
+  Signing out ends that one session on the server: its nonce goes into ``revoked_sessions``
+  (kept until the 7 days are up), which the per-request user lookup joins, so a kept copy of
+  the cookie is refused while the user's other devices stay signed in.
+- Key: ``WARMSTEAD_SECRET_KEY``, or a random one made once per install (server/config.py);
+  never a string shipped with the source.
 - CSRF: token = HMAC-SHA256(secret, session identity); no server storage; it changes at every
   sign-in. Visitors without a session get a random nonce in a separate signed cookie, and the
   token is the HMAC of that nonce (so the login form is protected too).

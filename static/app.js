@@ -27,6 +27,113 @@
     if (form && window.htmx) { window.htmx.trigger(form, "submit"); }
   });
 })();
+// Autosave forms (data-autosave, the layer editor). One save in flight per form: a change made
+// meanwhile is held, and one follow-up goes after the answer with the latest values. An answer
+// is swapped in only if the form still holds what that request sent; otherwise it would put
+// back old values under the user's fingers, so only the house version it stored is taken
+// (the follow-up must not be refused as someone else's edit). "Saved." is thus never shown
+// for values other than those on the screen.
+(function () {
+  "use strict";
+  var states = {};
+  var SKIP = { csrf_token: true, version: true, idempotency_key: true };
+  function autosaveForm(elt) {
+    return elt && elt.matches && elt.matches("form[data-autosave]") ? elt : null;
+  }
+  function stateOf(form) {
+    var key = form.getAttribute("action") || "";
+    if (!states[key]) { states[key] = { inFlight: false, sent: null, followUp: null }; }
+    return states[key];
+  }
+  function snapshot(form) {
+    var parts = [];
+    Array.prototype.forEach.call(form.elements, function (el) {
+      if (!el.name || el.disabled || SKIP[el.name] || el.type === "submit" || el.type === "button") { return; }
+      if ((el.type === "checkbox" || el.type === "radio") && !el.checked) { return; }
+      parts.push(el.name + "=" + el.value);
+    });
+    return parts.join("\n");
+  }
+  function say(form, text) {
+    var status = form.querySelector("#editor-status");
+    if (status) { status.textContent = text; status.setAttribute("data-pending", "true"); }
+  }
+  function current(key) {
+    var forms = document.querySelectorAll("form[data-autosave]");
+    for (var i = 0; i < forms.length; i++) { if (forms[i].getAttribute("action") === key) { return forms[i]; } }
+    return null;
+  }
+  document.addEventListener("htmx:confirm", function (evt) {
+    var form = autosaveForm(evt.detail.elt);
+    if (!form) { return; }
+    var st = stateOf(form);
+    if (!st.inFlight) { return; }
+    evt.preventDefault();
+    var trigger = evt.detail.triggeringEvent;
+    var button = trigger && trigger.submitter;
+    var action = button && button.name === "action" ? button.value : "";
+    st.followUp = { action: action || (st.followUp ? st.followUp.action : "") };
+    say(form, "Saving… your latest change goes next.");
+  });
+  document.addEventListener("htmx:beforeRequest", function (evt) {
+    var form = autosaveForm(evt.detail.elt);
+    if (!form) { return; }
+    var st = stateOf(form);
+    st.inFlight = true;
+    st.sent = snapshot(form);
+  });
+  var focusKept = null;
+  document.addEventListener("htmx:beforeSwap", function (evt) {
+    var config = evt.detail.requestConfig;
+    var form = autosaveForm(config && config.elt);
+    focusKept = null;
+    if (!form || !evt.detail.shouldSwap) { return; }
+    var st = stateOf(form);
+    if (snapshot(form) !== st.sent) {
+      evt.detail.shouldSwap = false;
+      var answer = new DOMParser().parseFromString(String(evt.detail.serverResponse), "text/html");
+      var sent = answer.querySelector("form[data-autosave]");
+      var saved = sent && sent.getAttribute("data-saved-version");
+      var version = form.querySelector("input[name=version]");
+      if (saved && version) { version.value = saved; }
+      say(form, st.followUp ? "Saving… your latest change goes next." : "Not saved yet: your latest entry is saved when you leave the field.");
+      return;
+    }
+    var active = document.activeElement;
+    if (active && active.id && form.contains(active) && typeof active.selectionStart === "number") {
+      focusKept = { id: active.id, start: active.selectionStart, end: active.selectionEnd };
+    }
+  });
+  document.addEventListener("htmx:afterSwap", function () {
+    // htmx restores the caret only when it is not at 0, so a field entered with Tab (all of it
+    // selected) would get the next key added in front of its value: restore it fully.
+    if (!focusKept) { return; }
+    var kept = focusKept;
+    focusKept = null;
+    var elt = document.getElementById(kept.id);
+    if (elt && elt === document.activeElement && elt.setSelectionRange) {
+      try { elt.setSelectionRange(kept.start, kept.end); } catch (e) { /* not a text field */ }
+    }
+  });
+  document.addEventListener("htmx:afterRequest", function (evt) {
+    var config = evt.detail.requestConfig;
+    var form = autosaveForm(config && config.elt);
+    if (!form) { return; }
+    var key = form.getAttribute("action") || "";
+    var st = stateOf(form);
+    st.inFlight = false;
+    var next = st.followUp;
+    st.followUp = null;
+    if (!next || (evt.detail.xhr && evt.detail.xhr.status === 0)) { return; }  // no answer: the retry sends the latest
+    setTimeout(function () {
+      var live = current(key);
+      if (!live || !window.htmx) { return; }
+      window.htmx.ajax("POST", live.getAttribute("hx-post"), {
+        source: live, values: next.action ? { action: next.action } : {}
+      });
+    }, 0);
+  });
+})();
 // Upload progress for forms that name a <progress> element in data-progress.
 document.addEventListener("htmx:xhr:progress", function (evt) {
   "use strict";

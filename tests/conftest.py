@@ -60,7 +60,7 @@ PG_URL = os.environ.get("WARMSTEAD_TEST_POSTGRES_URL", "postgresql://postgres@12
 PG_SCHEMA = f"warmstead_test_{os.getpid()}"
 TABLES_CHILD_FIRST = [
     "code_targets", "share_links", "price_book_items", "login_attempts", "packages", "upgrades", "surfaces",
-    "houses", "users", "organizations",
+    "houses", "revoked_sessions", "idempotency_keys", "users", "organizations",
 ]  # fmt: skip
 
 

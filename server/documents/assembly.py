@@ -25,6 +25,7 @@ from server.documents.common import (
 Lumber = Annotated[str, Field(max_length=20, pattern=r"^\s*\d+\s*[xX×]\s*\d+(\s*-?\s*rough)?\s*$")]
 HeatFlow = Literal["horizontal", "up", "down"]
 FilmChoice = Literal["ashrae", "iso6946", "none"]
+OutsideFilmChoice = Literal["wind", "still_air"]
 Method = Literal["parallel_path", "iso6946", "steel_correction"]
 
 
@@ -125,6 +126,15 @@ class AssemblyInput(Strict):
 
     heat_flow: HeatFlow = "horizontal"
     films: FilmChoice = "ashrae"
+    outside_film: OutsideFilmChoice | None = Field(
+        default=None,
+        description="what the outer face (the first layer's side) meets: 'wind' = outdoor air, "
+        "the 15 mph film (ASHRAE 0.17 h·ft²·°F/Btu; ISO 6946 Rse 0.04 m²·K/W); 'still_air' = an "
+        "unconditioned space such as a vented attic or crawlspace, the still-air film of the "
+        "heat-flow direction (ASHRAE horizontal 0.68, up 0.61, down 0.92; ISO 6946 Rse = Rsi). "
+        "Omitted = 'wind'; on a surface of a house document, omitted = follows the surface's "
+        "`adjacent` (still air when it faces a buffer space).",
+    )
     method: Method = "parallel_path"
     layers: list[LayerInput] = Field(min_length=1, max_length=40)
 
@@ -149,6 +159,9 @@ class LayerOut(Out):
 class AssemblyResult(Out):
     units: Units
     films: FilmsOut
+    outside_film: OutsideFilmChoice = Field(
+        default="wind", description="the outside film used: wind (outdoor air) or still_air"
+    )
     r_parallel_path: float
     r_isothermal_planes: float
     r_iso6946: float

@@ -11,6 +11,9 @@ the document's ``units`` (table in ../shared/API.md), with these decisions:
   ``r`` (the whole assembly's R, films included, used as is) or ``u`` (its U-factor, e.g. a
   window's rated U). A ``pipe_run`` surface gives ``length``, ``pipe`` and ``hours_per_year``
   instead of an area and an assembly.
+* A ``slab``, ``basement_floor`` or ``basement_wall`` with a ``ground`` object counts its UA
+  with the ground U of ISO 13370 (see :class:`server.documents.ground.GroundIn`); without one
+  it keeps the air-to-air U of its assembly.
 * Upgrade kinds: ``assembly`` (a new assembly, or ``r``/``u``, on one surface; the default
   when ``surface`` and an assembly are given), ``air_sealing`` (``cfm50_after`` or
   ``n50_after``), ``pipe_insulation`` (new ``pipe_layers`` on a pipe run, replacing its
@@ -29,7 +32,18 @@ from typing import Annotated, Literal
 from pydantic import ConfigDict, Field, ValidationInfo, field_validator, model_validator
 
 from server.documents.assembly import AssemblyInput
-from server.documents.common import Name, Number, Out, Positive, Strict, Units
+from server.documents.bills import BillsIn, CalibratedFigures, CalibrationFigures
+from server.documents.common import (
+    Name,
+    Number,
+    Out,
+    Positive,
+    Strict,
+    Units,
+    document_units,
+    unit_span,
+)
+from server.documents.ground import GroundIn
 from server.documents.pipe import PipeLayerIn
 
 Ident = Annotated[str, Field(min_length=1, max_length=80, pattern=r"^[A-Za-z0-9][A-Za-z0-9_.-]*$")]
@@ -48,6 +62,8 @@ SurfaceKind = Literal[
     "ceiling",
     "cathedral_roof",
     "floor",
+    "slab",
+    "basement_floor",
     "basement_wall",
     "rim_joist",
     "kneewall",
@@ -57,6 +73,12 @@ SurfaceKind = Literal[
     "pipe_run",
 ]
 UpgradeKind = Literal["assembly", "air_sealing", "pipe_insulation"]
+#: conditioned volume: at least 1 ft³, at most 1e9 m³, the same physical span in both systems
+VOLUME = unit_span("volume", "ft³", "m³", low_ip=1.0, high_si=1e9)
+#: degree-days: at most 30,000 K·day (54,000 °F·day), generous for any climate (common practice)
+DEGREE_DAYS = unit_span("degree_days", "°F·day", "K·day", low_ip=0.0, high_si=30000.0)
+#: surface kinds that may carry a ``ground`` object (ISO 13370)
+GROUND_SURFACE_KINDS = ("slab", "basement_floor", "basement_wall")
 
 
 class DegreeDaysRowIn(Strict):
@@ -97,11 +119,25 @@ class ClimateIn(Strict):
     instead of ``hdd``.
     """
 
-    hdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)]
-    cdd: Annotated[float, Field(ge=0, le=30000, allow_inf_nan=False)] = 0.0
+    hdd: Annotated[float, Field(ge=0, allow_inf_nan=False)]
+    cdd: Annotated[float, Field(ge=0, allow_inf_nan=False)] = 0.0
     heating_base: Number | None = None
     cooling_base: Number | None = None
     variable_base: VariableBaseIn | None = None
+
+    @field_validator("hdd", "cdd")
+    @classmethod
+    def _degree_days_span(cls, value: float, info: ValidationInfo) -> float:
+        return DEGREE_DAYS.check(value, document_units(info))
+    heating_design_temperature: Annotated[float, Field(ge=-80, le=120, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="99 % heating design dry-bulb, °F or °C (e.g. heating_design_temperature of "
+        "/calc/degree-days); with it every variant reports design_heat_loss",
+    )
+    indoor_design_temperature: Annotated[float, Field(ge=-20, le=120, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="indoor design temperature, °F or °C; omitted = 70 °F / 21 °C",
+    )
 
 
 class HeatingIn(Strict):
@@ -112,6 +148,11 @@ class HeatingIn(Strict):
     price: Price
     co2_per_unit: Price | None = Field(
         default=None, description="kg CO2 per fuel unit; omitted = the fuel table's factor"
+    )
+    output_capacity: Annotated[float, Field(gt=0, le=1e8, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="the heating equipment's output capacity, Btu/h or W; with a design "
+        "temperature every variant reports capacity_ratio",
     )
 
     @field_validator("efficiency")
@@ -148,7 +189,12 @@ class AirLeakageIn(Strict):
     n_factor: Annotated[float, Field(ge=1, le=100, allow_inf_nan=False)] = Field(
         default=18.0, description="LBL N-factor; 18 when omitted (common practice)"
     )
-    volume: Annotated[float, Field(ge=1, le=1e9, allow_inf_nan=False)]
+    volume: Annotated[float, Field(gt=0, allow_inf_nan=False)]
+
+    @field_validator("volume")
+    @classmethod
+    def _volume_span(cls, value: float, info: ValidationInfo) -> float:
+        return VOLUME.check(value, document_units(info))
 
     @model_validator(mode="after")
     def _one_figure(self) -> AirLeakageIn:
@@ -168,12 +214,49 @@ class PipeIn(Strict):
     emissivity: Annotated[float, Field(gt=0, le=1, allow_inf_nan=False)] = 0.9
 
 
+class ExposedPartIn(Strict):
+    """A part of a buffer space's enclosure facing outdoors or the ground: area and U."""
+
+    name: Name = ""
+    area: Area
+    u: UValue = Field(description="U-factor of the part, films included")
+
+
+SpaceFraction = Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)]
+
+
+class SpaceIn(Strict):
+    """An unconditioned (buffer) space, ISO 13789: a vented attic, crawlspace, garage...
+
+    Either ``b`` as given, or ``exposed`` (its parts facing outdoors or the ground),
+    ``volume`` and ``air_changes`` (with the outdoors, 1/h) from which b = H_ue / (H_iu + H_ue)
+    is computed for every house variant (the service checks which was given, naming the field).
+    """
+
+    id: Ident
+    label: Name = ""
+    exposed: list[ExposedPartIn] | None = Field(default=None, max_length=50)
+    volume: Annotated[float, Field(gt=0, le=1e9, allow_inf_nan=False)] | None = Field(
+        default=None, description="air volume of the space, ft³ or m³"
+    )
+    air_changes: Annotated[float, Field(ge=0, le=1000, allow_inf_nan=False)] | None = Field(
+        default=None, description="air changes per hour with the outdoors"
+    )
+    b: SpaceFraction | None = Field(
+        default=None, description="adjustment factor given directly, 0..1 (instead of the rest)"
+    )
+
+
 class SurfaceIn(Strict):
     """One piece of the envelope, or a pipe run (``kind: pipe_run``)."""
 
     id: Ident
     kind: SurfaceKind
     name: Name = ""
+    adjacent: Ident = Field(
+        default="outdoors",
+        description="what lies behind the surface: outdoors, ground, or the id of a space",
+    )
     area: Area | None = None
     assembly: AssemblyInput | None = None
     r: RValue | None = Field(default=None, description="whole-assembly R, films included")
@@ -181,10 +264,19 @@ class SurfaceIn(Strict):
     length: Area | None = Field(default=None, description="pipe runs: ft or m")
     pipe: PipeIn | None = None
     hours_per_year: Annotated[float, Field(gt=0, le=8784, allow_inf_nan=False)] | None = None
+    ground: GroundIn | None = Field(
+        default=None,
+        description="slab, basement_floor, basement_wall: ground contact by ISO 13370 (the "
+        "assembly gives R_f or R_w, films excluded); its UA then uses the ground U",
+    )
 
     @model_validator(mode="after")
     def _shape(self) -> SurfaceIn:
         given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
+        if self.ground is not None and self.kind not in GROUND_SURFACE_KINDS:
+            raise ValueError(
+                f"a ground object belongs to a slab, basement_floor or basement_wall, not a {self.kind}"
+            )
         if self.kind == "pipe_run":
             missing = [n for n in ("length", "pipe", "hours_per_year") if getattr(self, n) is None]
             if missing:
@@ -225,6 +317,11 @@ class UpgradeIn(Strict):
     cfm50_after: Annotated[float, Field(ge=0, le=1e6, allow_inf_nan=False)] | None = None
     n50_after: Annotated[float, Field(ge=0, le=100, allow_inf_nan=False)] | None = None
     pipe_layers: list[PipeLayerIn] | None = Field(default=None, max_length=20)
+    ground: GroundIn | None = Field(
+        default=None,
+        description="a ground surface's changed ground inputs (e.g. slab edge insulation); the "
+        "fields given replace the surface's; with no new assembly the surface's is kept",
+    )
     cost: CostIn = Field(default_factory=CostIn)
     rebate: Money = 0.0
     life_years: Annotated[float, Field(gt=0, le=100, allow_inf_nan=False)] | None = None
@@ -238,7 +335,7 @@ class UpgradeIn(Strict):
                 self.kind = "air_sealing"
             elif self.pipe_layers is not None:
                 self.kind = "pipe_insulation"
-            elif self.surface is not None and assembly_given:
+            elif self.surface is not None and (assembly_given or self.ground is not None):
                 self.kind = "assembly"
             else:
                 raise ValueError(
@@ -250,13 +347,15 @@ class UpgradeIn(Strict):
             "air_sealing": assembly_given
             + [n for n in ("surface", "pipe_layers") if getattr(self, n) is not None],
             "pipe_insulation": assembly_given + sealing_given,
-        }[self.kind]
+        }[self.kind] + (["ground"] if self.ground is not None and self.kind != "assembly" else [])
         if others:
             raise ValueError(f"an upgrade of kind {self.kind} does not take {', '.join(others)}")
         if self.kind == "assembly":
-            if self.surface is None or len(assembly_given) != 1:
+            ground_only = not assembly_given and self.ground is not None
+            if self.surface is None or (len(assembly_given) != 1 and not ground_only):
                 raise ValueError(
-                    "an assembly upgrade needs a surface and exactly one of assembly, r or u"
+                    "an assembly upgrade needs a surface and exactly one of assembly, r or u "
+                    "(or, on a ground surface, a ground change alone)"
                 )
             if self.cost.per_length:
                 raise ValueError("an assembly upgrade is priced fixed + per_area, not per_length")
@@ -298,6 +397,24 @@ class EconomicsIn(Strict):
     loan: LoanIn | None = None
 
 
+class OptimizeIn(Strict):
+    """The best package for a budget: the set of upgrades (at most one per surface, one air
+    sealing, one per pipe run) with net cost ≤ ``budget`` that maximises ``objective``."""
+
+    budget: Annotated[float, Field(ge=0, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="most net cost (installed cost − rebates) in the document's currency; "
+        "null = no budget"
+    )
+    objective: Literal["npv", "annual_savings", "co2"] = Field(
+        default="npv",
+        description="npv, annual_savings (first year, today's prices) or co2 (kg avoided a year)",
+    )
+    frontier_limit: Annotated[int, Field(ge=0, le=1000)] = Field(
+        default=200, description="most frontier points listed (0: no frontier)"
+    )
+
+
 class HouseDocument(Strict):
     """The whole comparison as one document."""
 
@@ -309,11 +426,24 @@ class HouseDocument(Strict):
     cooling: CoolingIn | None = None
     air_leakage: AirLeakageIn | None = None
     surfaces: list[SurfaceIn] = Field(min_length=1, max_length=200)
+    spaces: list[SpaceIn] = Field(
+        default_factory=list, max_length=50, description="unconditioned spaces (ISO 13789)"
+    )
     upgrades: list[UpgradeIn] = Field(default_factory=list, max_length=300)
     packages: list[PackageIn] = Field(default_factory=list, max_length=50)
     economics: EconomicsIn = Field(default_factory=EconomicsIn)
     electricity_co2_per_kwh: Price | None = Field(
         default=None, description="kg CO2 per kWh; omitted = grid average (from memory)"
+    )
+    bills: BillsIn | None = Field(
+        default=None,
+        description="the heating fuel's bills (as calc/bills, without units; normal_temperatures "
+        "required): the result then has calibration and each option calibrated figures",
+    )
+    optimize: OptimizeIn | None = Field(
+        default=None,
+        description="the best set of upgrades for a net-cost budget: the result then has best, "
+        "frontier and optimization",
     )
 
 
@@ -338,6 +468,26 @@ class SurfaceFigures(FiniteOut):
     u: float
     ua: float
     share_of_ua: float = Field(description="fraction of the house's UA (envelope + air)")
+    adjacent: str = Field(default="outdoors", description="outdoors, ground or a space id")
+    b: float = Field(
+        default=1.0, description="adjustment factor of what lies behind (1 outdoors); ua = b·U·A"
+    )
+
+
+class SpaceFigures(FiniteOut):
+    """A buffer space in one house variant (ISO 13789): b, H_iu, H_ue (per degree)."""
+
+    id: str
+    label: str
+    b: float
+    b_given: bool = Field(description="b typed in the document rather than computed")
+    h_iu: float = Field(description="Σ U·A of the house's surfaces facing the space")
+    h_ue: float | None = Field(
+        description="Σ U·A of its exposed parts + air heat capacity × air changes × volume; "
+        "null when b was given"
+    )
+    ua: float = Field(description="b × h_iu: what the surfaces facing it add to the house's UA")
+    surfaces: list[str]
 
 
 class PipeFigures(FiniteOut):
@@ -359,6 +509,7 @@ class HouseFigures(FiniteOut):
     ua_infiltration: float
     ua_by_surface: dict[str, float]
     surfaces: list[SurfaceFigures]
+    spaces: list[SpaceFigures] = Field(default=[], description="buffer spaces, ISO 13789")
     cfm50: float | None = None
     ach50: float | None = None
     ach_natural: float | None = None
@@ -372,9 +523,20 @@ class HouseFigures(FiniteOut):
     cooling_electricity: float = Field(description="kWh per year")
     cooling_cost: float
     total_cost: float
-    heating_co2: float = Field(description="kg per year")
+    heating_co2: float = Field(description="kg per year (fossil)")
     cooling_co2: float = Field(description="kg per year")
-    co2: float = Field(description="kg per year")
+    co2: float = Field(description="kg per year, fossil; wood's CO2 is in co2_biogenic")
+    co2_biogenic: float = Field(
+        default=0.0, description="kg per year of biogenic CO2 (wood heating), apart from co2"
+    )
+    design_heat_loss: float | None = Field(
+        default=None,
+        description="Btu/h or W: UA × (indoor − heating design temperature); null without a "
+        "design temperature",
+    )
+    capacity_ratio: float | None = Field(
+        default=None, description="heating output capacity ÷ design heat loss"
+    )
 
 
 class StepFigures(FiniteOut):
@@ -420,6 +582,9 @@ class OptionFigures(HouseFigures):
     steps: list[StepFigures] = Field(description="incremental savings in the listed order")
     cash_flow: CashFlowFigures
     warnings: list[str] = []
+    calibrated: CalibratedFigures | None = Field(
+        default=None, description="with bills: the money figures with heating savings × ratio"
+    )
 
 
 class FuelFigures(FiniteOut):
@@ -437,6 +602,42 @@ class FuelFigures(FiniteOut):
     electricity_co2_source: str
 
 
+class FrontierPoint(FiniteOut):
+    """One set on the cost/benefit frontier: its upgrades, net cost, objective and figures."""
+
+    upgrades: list[str] = Field(description="in document order; empty = no upgrade")
+    net_cost: float
+    objective_value: float = Field(description="the optimised objective of this set")
+    annual_savings: float
+    npv: float
+    sir: float | None = Field(description="null when net cost <= 0")
+    co2_avoided: float = Field(description="kg per year")
+    installed_cost: float
+    rebates: float
+    simple_payback_years: float | None = Field(description="null when savings <= 0")
+    total_cost: float = Field(description="yearly energy cost of this house")
+    ua: float = Field(description="envelope + infiltration, per degree")
+
+
+class OptimizationFigures(FiniteOut):
+    """How ``best`` and ``frontier`` were found, and whether the answer is proven exact."""
+
+    objective: str
+    objective_meaning: str
+    budget: float | None = Field(description="null = no budget")
+    objective_value: float = Field(description="the best set's objective (0 for no upgrade)")
+    best_is_no_upgrade: bool
+    exact: bool = Field(description="true: the true optimum over every allowed set")
+    method: str = Field(description="milp, milp_piecewise, enumeration or milp_bound")
+    method_meaning: str
+    upper_bound: float | None = Field(
+        description="when not exact: a value no allowed set's objective can exceed"
+    )
+    sets: int = Field(description="number of allowed sets of upgrades")
+    frontier_capped: bool
+    warnings: list[str] = []
+
+
 class HouseResult(FiniteOut):
     """As found, each package, and each upgrade alone."""
 
@@ -450,3 +651,19 @@ class HouseResult(FiniteOut):
     step_order: str
     assumptions: list[str]
     warnings: list[str] = []
+    calibration: CalibrationFigures | None = Field(
+        default=None, description="with bills: the as-found model against the bills"
+    )
+    best: OptionFigures | None = Field(
+        default=None,
+        description="with optimize: the best set within the budget, computed as a package; null "
+        "without optimize or when no upgrade is best (optimization.best_is_no_upgrade)",
+    )
+    frontier: list[FrontierPoint] | None = Field(
+        default=None,
+        description="with optimize: the sets no other set beats on both net cost and the "
+        "objective, ascending by net cost",
+    )
+    optimization: OptimizationFigures | None = Field(
+        default=None, description="with optimize: how best and frontier were found"
+    )

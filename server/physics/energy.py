@@ -244,3 +244,39 @@ def pipe_annual_loss(
     if not math.isfinite(hours_per_year) or not 0 <= hours_per_year <= 8784:
         raise ValueError("hours per year must be from 0 to 8784")
     return length_m * max(delta_t_k, 0.0) / r_per_length_si * hours_per_year * HOUR_S
+
+
+def design_heat_loss(ua_w_per_k: float, indoor_c: float, design_c: float) -> float:
+    """Design heat loss [W]: steady conduction and air leakage at the design condition [1].
+
+    ``Q_design = UA · (T_indoor − T_design)``, with UA the envelope and infiltration
+    conductance and ``T_design`` the 99 % heating design dry-bulb temperature (ASHRAE
+    Handbook—Fundamentals, climatic design conditions). Zero when the design temperature is
+    not below the indoor one.
+
+    Parameters
+    ----------
+    ua_w_per_k : float
+        Whole-house conductance [W/K], at least 0.
+    indoor_c : float
+        Indoor design temperature [°C].
+    design_c : float
+        Outdoor heating design temperature [°C].
+    """
+    _not_negative(ua_w_per_k, "the UA")
+    for value, name in ((indoor_c, "the indoor temperature"), (design_c, "the design temperature")):
+        if not math.isfinite(value):
+            raise ValueError(f"{name} must be a finite number")
+    return ua_w_per_k * max(indoor_c - design_c, 0.0)
+
+
+def capacity_ratio(output_capacity_w: float, design_heat_loss_w: float) -> float | None:
+    """Heating equipment output capacity over the design heat loss [-].
+
+    ``None`` when the design heat loss is zero (nothing to compare with).
+    """
+    _positive(output_capacity_w, "the output capacity")
+    _not_negative(design_heat_loss_w, "the design heat loss")
+    if design_heat_loss_w == 0:
+        return None
+    return output_capacity_w / design_heat_loss_w

@@ -7,6 +7,14 @@ References
     Values in h·ft²·°F/Btu (from memory, common practice in the trade).
 [2] ISO 6946:2017, Building components and building elements — Thermal resistance and thermal
     transmittance — Calculation methods, Table 7 (conventional surface resistances, m²·K/W).
+    A surface that faces an unconditioned space (or another building) rather than outdoor air
+    takes the internal surface resistance Rsi of the same heat-flow direction on that side too
+    (clause 6.8 and the notes to Table 7; from memory).
+
+The side away from the conditioned space faces either outdoor air (``"wind"``: the 15 mph film
+of [1], Rse of [2]) or a buffer space such as a vented attic or a crawlspace (``"still_air"``:
+the still-air film of [1] for the heat-flow direction, Rsi of [2]), as the surface's films
+follow what lies behind it (ISO 13789 buffer spaces, see :mod:`.buffer_spaces`).
 """
 
 from __future__ import annotations
@@ -18,6 +26,7 @@ from server.physics.units import r_ip_to_si
 
 HeatFlow = Literal["horizontal", "up", "down"]
 FilmSet = Literal["ashrae", "iso6946", "none"]
+OutsideFilm = Literal["wind", "still_air"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -40,8 +49,12 @@ _ISO_INSIDE_SI = {"horizontal": 0.13, "up": 0.10, "down": 0.17}
 _ISO_OUTSIDE_SI = 0.04
 
 
-def surface_films(film_set: FilmSet, heat_flow: HeatFlow) -> Films:
-    """Film resistances for a film set and a heat-flow direction.
+def surface_films(film_set: FilmSet, heat_flow: HeatFlow, outside: OutsideFilm = "wind") -> Films:
+    """Film resistances for a film set, a heat-flow direction and what the outside faces.
+
+    ``R_films = R_inside(direction) + R_outside``, with ``R_outside`` the 15 mph wind film [1]
+    (Rse [2]) for outdoor air, or the still-air film of the same direction [1] (Rsi [2]) for
+    a buffer space.
 
     Parameters
     ----------
@@ -50,6 +63,9 @@ def surface_films(film_set: FilmSet, heat_flow: HeatFlow) -> Films:
     heat_flow : {"horizontal", "up", "down"}
         Direction of heat flow: walls are horizontal; an attic floor in winter is up; a floor
         over a crawlspace in winter is down.
+    outside : {"wind", "still_air"}
+        What the outer face meets: outdoor air (default) or the still air of an unconditioned
+        space (vented attic, crawlspace, unheated basement, garage).
 
     Returns
     -------
@@ -58,10 +74,15 @@ def surface_films(film_set: FilmSet, heat_flow: HeatFlow) -> Films:
     """
     if heat_flow not in _ISO_INSIDE_SI:
         raise ValueError("heat flow must be horizontal, up or down")
+    if outside not in ("wind", "still_air"):
+        raise ValueError("the outside film must be wind or still_air")
+    still = outside == "still_air"
     if film_set == "ashrae":
-        return Films(r_ip_to_si(_ASHRAE_INSIDE_IP[heat_flow]), r_ip_to_si(_ASHRAE_OUTSIDE_IP))
+        inside_ip = _ASHRAE_INSIDE_IP[heat_flow]
+        return Films(r_ip_to_si(inside_ip), r_ip_to_si(inside_ip if still else _ASHRAE_OUTSIDE_IP))
     if film_set == "iso6946":
-        return Films(_ISO_INSIDE_SI[heat_flow], _ISO_OUTSIDE_SI)
+        inside_si = _ISO_INSIDE_SI[heat_flow]
+        return Films(inside_si, inside_si if still else _ISO_OUTSIDE_SI)
     if film_set == "none":
         return Films(0.0, 0.0)
     raise ValueError("films must be ashrae, iso6946 or none")

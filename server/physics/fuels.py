@@ -66,6 +66,9 @@ class Fuel:
         What the heating system's efficiency means for this fuel (AFUE, COP...).
     electric : bool
         True when the unit is a kWh of electricity.
+    biogenic : bool
+        True when the combustion CO2 is biogenic (wood): reported apart from fossil CO2, as
+        greenhouse-gas inventories do [1].
     """
 
     slug: str
@@ -77,6 +80,7 @@ class Fuel:
     co2_source: str
     efficiency_meaning: str
     electric: bool = False
+    biogenic: bool = False
 
 
 _COMBUSTION = "seasonal efficiency as a fraction (AFUE for a furnace or boiler), e.g. 0.80"
@@ -157,6 +161,7 @@ FUELS: dict[str, Fuel] = {
                 "memory); biogenic CO2, which inventories report separately"
             ),
             efficiency_meaning="seasonal stove or boiler efficiency as a fraction, e.g. 0.65",
+            biogenic=True,
         ),
     )
 }

@@ -26,6 +26,7 @@ from __future__ import annotations
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field, replace
 
+from server.physics import buffer_spaces as buffers
 from server.physics import degree_days as dd
 from server.physics import economics as money
 from server.physics import energy
@@ -34,12 +35,17 @@ from server.physics.fuels import GRID_ELECTRICITY_CO2_KG_PER_KWH, KWH_J, Fuel
 
 @dataclass(frozen=True, slots=True)
 class Surface:
-    """One piece of the envelope: area [m²] and U-factor [W/(m²·K)], films included."""
+    """One piece of the envelope: area [m²] and U-factor [W/(m²·K)], films included.
+
+    ``adjacent`` is what lies behind it: ``"outdoors"``, ``"ground"`` or a buffer space's id
+    (its UA is then b · U · A, see :mod:`.buffer_spaces`).
+    """
 
     id: str
     kind: str
     area_m2: float
     u_si: float
+    adjacent: str = buffers.OUTDOORS
 
 
 @dataclass(frozen=True, slots=True)
@@ -142,6 +148,7 @@ class House:
     cooling: Cooling | None = None
     pipe_runs: tuple[PipeRunLoss, ...] = ()
     electricity_co2_kg_per_kwh: float = GRID_ELECTRICITY_CO2_KG_PER_KWH
+    spaces: tuple[buffers.BufferSpace, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -285,6 +292,20 @@ class HouseEnergy:
     heating_co2_kg: float
     cooling_co2_kg: float
     co2_kg: float
+    #: each buffer space's b, H_iu and H_ue in this house (ISO 13789, see :mod:`.buffer_spaces`)
+    spaces: Mapping[str, buffers.SpaceFactors] = field(default_factory=dict)
+    #: biogenic CO2 of wood heating [kg/year], apart from the fossil ``co2_kg``
+    co2_biogenic_kg: float = 0.0
+
+
+def _buffered(
+    house: House, by_surface: dict[str, float]
+) -> tuple[dict[str, float], dict[str, buffers.SpaceFactors]]:
+    """Surfaces' UA after their buffer space's b, recomputed for this house (ISO 13789)."""
+    if not house.spaces and all(s.adjacent == buffers.OUTDOORS for s in house.surfaces):
+        return by_surface, {}
+    adjacent = {s.id: s.adjacent for s in house.surfaces}
+    return buffers.buffered_conductances(by_surface, adjacent, house.spaces)
 
 
 def heating_co2_per_unit(house: House) -> float:
@@ -300,7 +321,8 @@ def heating_co2_per_unit(house: House) -> float:
 def evaluate(house: House) -> HouseEnergy:
     """Annual energy, cost and CO2 of ``house`` by the degree-day method [1].
 
-    ``UA = Σ U·A + UA_inf``; heating ``Q = UA·HDD·24 h`` plus pipe losses, bought at the
+    ``UA = Σ b·U·A + UA_inf`` (b = 1 outdoors, a buffer space's b recomputed for this house,
+    see :mod:`.buffer_spaces`); heating ``Q = UA·HDD·24 h`` plus pipe losses, bought at the
     heating system's efficiency; cooling ``Q = UA·CDD·24 h`` (sensible only) at SEER or COP;
     cost = fuel × price + kWh × electricity price; CO2 = fuel × factor + kWh × grid factor.
 
@@ -316,6 +338,7 @@ def evaluate(house: House) -> HouseEnergy:
         [kg/year].
     """
     by_surface = {s.id: s.u_si * s.area_m2 for s in house.surfaces}
+    by_surface, spaces = _buffered(house, by_surface)
     envelope = sum(by_surface.values())
     leak = house.air_leakage
     infiltration = (
@@ -337,6 +360,9 @@ def evaluate(house: House) -> HouseEnergy:
         heating_load + pipe_total, heating.efficiency, heating.fuel.energy_per_unit_j
     )
     heating_co2 = fuel * heating_co2_per_unit(house)
+    # wood's CO2 is biogenic: reported apart from the fossil total (GHG inventory practice)
+    biogenic_co2 = heating_co2 if heating.fuel.biogenic else 0.0
+    heating_co2 -= biogenic_co2
     cooling_load = cooling_kwh = cooling_cost = 0.0
     if house.cooling is not None:
         cooling = house.cooling
@@ -368,6 +394,8 @@ def evaluate(house: House) -> HouseEnergy:
         heating_co2_kg=heating_co2,
         cooling_co2_kg=cooling_co2,
         co2_kg=heating_co2 + cooling_co2,
+        spaces=spaces,
+        co2_biogenic_kg=biogenic_co2,
     )
 
 

@@ -1,4 +1,4 @@
-"""Unit conversions and trade-style length parsing.
+"""Unit conversions and trade-style length display.
 
 Everything inside :mod:`server.physics` is SI: metres, kelvin (or degrees Celsius for
 temperatures), watts, m²·K/W. Conversion to and from US customary (``ip``) units happens at
@@ -21,8 +21,6 @@ Exact and derived factors (all from [1], [2]):
 
 from __future__ import annotations
 
-import math
-import re
 from fractions import Fraction
 from typing import Literal
 
@@ -120,6 +118,7 @@ IP_TO_SI: dict[str, float] = {
     "ua": UA_IP_IN_SI,
     "degree_days": DELTA_F_K,
     "delta_t": DELTA_F_K,
+    "power": BTU_PER_HOUR_W,  # Btu/h -> W
 }
 
 
@@ -151,94 +150,7 @@ def temp_from_c(value_c: float, units: UnitSystem) -> float:
     return value_c if units == "si" else c_to_f(value_c)
 
 
-# --- trade-style length entry ----------------------------------------------------------------
-_UNIT_M = {
-    "mm": 1e-3,
-    "cm": 1e-2,
-    "m": 1.0,
-    "in": INCH_M,
-    '"': INCH_M,
-    "inch": INCH_M,
-    "inches": INCH_M,
-    "ft": FOOT_M,
-    "'": FOOT_M,
-    "foot": FOOT_M,
-    "feet": FOOT_M,
-}
-_NUMBER = r"(?:\d+(?:\.\d*)?|\.\d+)"
-_UNIT = r"(?P<unit>mm|cm|m|inches|inch|in|\"|feet|foot|ft|')?"
-_AMOUNT = re.compile(
-    rf"""^\s*(?:
-      (?P<whole>{_NUMBER})(?:\s*-\s*|\s+)(?P<num>\d+)\s*/\s*(?P<den>\d+)   # 3-1/2, 5 1/2
-    | (?P<fnum>\d+)\s*/\s*(?P<fden>\d+)                                 # 1/2, 11/16
-    | (?P<plain>{_NUMBER})                                              # 3, 3.5
-    )\s*{_UNIT}\s*$""",
-    re.VERBOSE | re.IGNORECASE,
-)
-_ZERO = re.compile(r"^\s*0+(?:\.0*)?\s*(?:\"|in|inch|inches)?\s*$", re.IGNORECASE)
-#: longer text than this is not a length anyone types
-_MAX_TEXT = 40
-_FEET_INCHES = re.compile(rf"^\s*(?P<ft>{_NUMBER})\s*(?:'|ft)\s*(?P<rest>.+?)\s*$", re.IGNORECASE)
-
-
-def parse_length(text: str, default_unit: str = "in") -> float:
-    """Parse a length as the trade types it and return metres [m].
-
-    Accepts whole numbers and decimals (``3.5``), fractions (``1/2``), mixed numbers with a
-    dash or a space (``3-1/2``, ``5 1/2``), a unit (``in``, ``"``, ``ft``, ``'``, ``mm``,
-    ``cm``, ``m``) and feet-and-inches (``5' 6"``). Without a unit ``default_unit`` applies
-    (``"in"`` for ip entry, ``"mm"`` for si entry).
-
-    Raises
-    ------
-    ValueError
-        With a plain-words message when the text is not a length or is not positive.
-
-    Examples
-    --------
-    >>> round(parse_length("3-1/2") / INCH_M, 6)
-    3.5
-    >>> round(parse_length('5 1/2"') / INCH_M, 6)
-    5.5
-    >>> round(parse_length("89 mm"), 6)
-    0.089
-    >>> round(parse_length("5' 6\\"") / INCH_M, 6)
-    66.0
-    """
-    if text is None or not str(text).strip():
-        raise ValueError('enter a length, for example 3-1/2, 5 1/2" or 89 mm')
-    raw = str(text).strip().replace("\u2033", '"').replace("\u2032", "'")
-    if len(raw) > _MAX_TEXT:
-        raise ValueError('that is too long to be a length; write it like 3-1/2, 5 1/2" or 89 mm')
-    feet = _FEET_INCHES.match(raw)
-    if feet and feet.group("rest"):
-        rest = feet.group("rest")
-        inches = 0.0 if _ZERO.match(rest) else parse_length(rest, default_unit="in")
-        metres = float(feet.group("ft")) * FOOT_M + inches
-        if not math.isfinite(metres) or metres <= 0:
-            raise ValueError(f"'{raw}' must be a length greater than zero")
-        return metres
-    if len(raw) > _MAX_TEXT:
-        raise ValueError('that is too long to be a length; write it like 3-1/2, 5 1/2" or 89 mm')
-    match = _AMOUNT.match(raw)
-    if not match:
-        raise ValueError(f"'{raw}' is not a length; write it like 3-1/2, 5 1/2\" or 89 mm")
-    if match.group("plain"):
-        amount = Fraction(match.group("plain"))
-    else:
-        whole = Fraction(match.group("whole") or 0)
-        num = int(match.group("num") or match.group("fnum"))
-        den = int(match.group("den") or match.group("fden"))
-        if den == 0:
-            raise ValueError(f"'{raw}' divides by zero")
-        amount = whole + Fraction(num, den)
-    unit = (match.group("unit") or default_unit).lower()
-    if unit not in _UNIT_M:
-        raise ValueError(f"unknown unit '{unit}'")
-    metres = float(amount) * _UNIT_M[unit]
-    if not math.isfinite(metres) or metres <= 0:
-        raise ValueError(f"'{raw}' must be a length greater than zero")
-    return metres
+# --- trade-style length display (reading typed lengths: server/services/number_text.py) ----
 
 
 def format_inches(metres: float, denominator: int = 8) -> str:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 from server.documents.assembly import (
     AssemblyInput,
     AssemblyResult,
@@ -169,6 +171,32 @@ class _Builder:
         return fit.r_si
 
 
+def _refuse_non_finite(
+    assembly: AssemblyInput, layer_r: list[float], totals: list[float], prefix: str
+) -> None:
+    """InputError on the layer with the largest R when a total is not a finite number.
+
+    Each layer can be finite while their sum (or its conversion to the request's units) is
+    not: two layers of R 1e308 add up to infinity, which JSON cannot carry and no page can
+    show, so such an assembly is refused rather than answered with ``r_total: null``.
+    """
+    if all(math.isfinite(value) for value in (*layer_r, *totals)):
+        return
+    index = max(range(len(layer_r)), key=lambda i: (not math.isfinite(layer_r[i]), layer_r[i]))
+    doc = assembly.layers[index]
+    if doc.r is not None:
+        key = ".r"
+    elif doc.cavity is not None:
+        key = ".cavity.r" if doc.cavity.r is not None else ".cavity"
+    else:
+        key = ".thickness" if doc.thickness is not None else ""
+    raise InputError(
+        f"{prefix}.layers[{index}]{key}".lstrip("."),
+        "the layers' R-values add up to a number too large to compute: check this layer's "
+        "value for a typing slip",
+    )
+
+
 def evaluate_assembly(
     assembly: AssemblyInput,
     *,
@@ -186,7 +214,8 @@ def evaluate_assembly(
             layers.append(builder.layer(i, doc))
         except ValueError as exc:
             raise InputError(f"{prefix}.layers[{i}]".lstrip("."), str(exc)) from None
-    films = surface_films(assembly.films, assembly.heat_flow)
+    outside_film = assembly.outside_film or "wind"
+    films = surface_films(assembly.films, assembly.heat_flow, outside_film)
     try:
         result = phys.assembly_resistance(layers, films)
     except ValueError as exc:
@@ -222,6 +251,9 @@ def evaluate_assembly(
     def t_out(value_m: float | None) -> float | None:
         return None if value_m is None else from_si(value_m * 1e3, "thickness", units)
 
+    _refuse_non_finite(assembly, [r_out(lr.r_si) for lr in result.layers],
+                       [r_out(r_total), r_si_to_ip(r_total), r_out(result.r_parallel_path_si),
+                        r_out(result.r_isothermal_planes_si), r_out(result.r_iso6946_si)], prefix)  # fmt: skip
     layer_out = []
     for physical, lr in zip(layers, result.layers, strict=True):
         layer_out.append(
@@ -238,6 +270,7 @@ def evaluate_assembly(
     return AssemblyResult(
         units=units,
         films=FilmsOut(inside=r_out(films.inside_r_si), outside=r_out(films.outside_r_si)),
+        outside_film=outside_film,
         r_parallel_path=r_out(result.r_parallel_path_si),
         r_isothermal_planes=r_out(result.r_isothermal_planes_si),
         r_iso6946=r_out(result.r_iso6946_si),

@@ -6,6 +6,7 @@ The one code path for the JSON calculator and the house pages' weather upload.
 from __future__ import annotations
 
 import math
+from typing import BinaryIO
 
 from server.documents.climate import DegreeDaysAtBase, DegreeDaysResult, MonthlyDegreeDays
 from server.errors import InputError
@@ -47,7 +48,7 @@ def _unit(temperature_unit: str | None) -> str | None:
 
 
 def compute_degree_days(
-    data: bytes,
+    data: bytes | BinaryIO,
     *,
     units: str,
     heating_base: float | None,
@@ -56,6 +57,9 @@ def compute_degree_days(
     temperature_unit: str | None = None,
 ) -> DegreeDaysResult:
     """Degree-days, monthly table, design temperatures and climate zone of a weather file.
+
+    ``data`` is the file's bytes or a seekable binary file (an upload's spooled file), read
+    one bounded line at a time (:func:`server.services.weather_files.parse_weather_file`).
 
     ``units`` is "ip" (°F, °F·day) or "si" (°C, K·day); bases default to 65 °F / 18.3 °C.
     Raises :class:`InputError` (HTTP 422) for anything that cannot be computed.

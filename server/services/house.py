@@ -13,17 +13,23 @@ Rules decided here (the contract was silent):
 * Incremental savings of a package are in its listed order (see
   :func:`server.physics.house_model.evaluate_option`).
 * Pipe-run losses are bought at the heating system's fuel, efficiency and price.
+* A ``slab``, ``basement_floor`` or ``basement_wall`` with a ``ground`` object takes its U from
+  ISO 13370 (:func:`server.services.ground.ground_surface`); the model then holds that U over
+  the surface's area (UA / area), so packages and upgrades need nothing else. An upgrade's
+  ``ground`` replaces the fields it gives (slab edge insulation, say).
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from pydantic import ValidationError
 
 from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.ground import GroundIn
 from server.documents.house import (
+    GROUND_SURFACE_KINDS,
     CashFlowFigures,
     FuelFigures,
     HouseDocument,
@@ -32,6 +38,7 @@ from server.documents.house import (
     OptionFigures,
     PipeFigures,
     PipeIn,
+    SpaceFigures,
     StepFigures,
     SurfaceFigures,
     SurfaceIn,
@@ -39,18 +46,28 @@ from server.documents.house import (
 )
 from server.documents.pipe import PipeLayerIn, PipeRequest
 from server.errors import FieldError, InputError
+from server.physics import buffer_spaces as buffers
 from server.physics import economics
 from server.physics import house_model as model
-from server.physics.energy import CFM_M3_PER_S, air_changes_at_50_pa, flow_from_ach50
+from server.physics.energy import (
+    CFM_M3_PER_S,
+    air_changes_at_50_pa,
+    capacity_ratio,
+    design_heat_loss,
+    flow_from_ach50,
+)
 from server.physics.fuels import (
     GRID_ELECTRICITY_CO2_KG_PER_KWH,
     GRID_ELECTRICITY_CO2_SOURCE,
     KWH_J,
     fuel_by_slug,
 )
-from server.physics.units import BTU_J, UnitSystem, from_si, to_si
+from server.physics.units import BTU_J, UnitSystem, from_si, temp_to_c, to_si
 from server.services.assembly import evaluate_assembly
+from server.services.calibration import calibrate
 from server.services.catalog import Catalog
+from server.services.ground import construction_r_from_total, ground_surface, merge_ground
+from server.services.optimize import attach_optimum
 from server.services.pipe import compute_pipe
 
 STEP_ORDER = (
@@ -81,6 +98,8 @@ class _Build:
     warnings: list[str] = field(default_factory=list)
     assemblies: dict[str, AssemblyResult] = field(default_factory=dict)
     problems: list[FieldError] = field(default_factory=list)
+    #: ids of the surfaces that face a buffer space: still-air films on that side
+    still_air: frozenset[str] = frozenset()
 
     def problem(self, path: str, message: str) -> None:
         self.problems.append(FieldError(path, message))
@@ -97,9 +116,17 @@ class _Build:
         if item.r is not None:
             return 1.0 / to_si(item.r, "r", self.units)
         assert item.assembly is not None  # the document checked exactly one is given
-        result = self._assembly(item.assembly, f"{path}.assembly")
+        result = self._assembly(self._facing(item, item.assembly), f"{path}.assembly")
         self.warnings.extend(f"{label}: {note}" for note in result.warnings)
         return 1.0 / result.rsi_total
+
+    def _facing(self, item: SurfaceIn | UpgradeIn, assembly: AssemblyInput) -> AssemblyInput:
+        """The assembly with still-air films outside when its surface faces a buffer space
+        (unless the assembly says which outside film itself)."""
+        surface = item.id if isinstance(item, SurfaceIn) else item.surface
+        if surface in self.still_air and assembly.outside_film is None:
+            return assembly.model_copy(update={"outside_film": "still_air"})
+        return assembly
 
     def _assembly(self, assembly: AssemblyInput, path: str) -> AssemblyResult:
         key = assembly.model_dump_json()
@@ -224,7 +251,11 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
             )
             continue
         assert surface.area is not None  # document checked
-        u_si = build.u_si(surface, path, surface.id)
+        u_si = (
+            build.u_si(surface, path, surface.id)
+            if surface.ground is None
+            else _ground_u_si(build, surface, path, surface, path, surface.ground, path, surface.id)
+        )
         surfaces.append(
             model.Surface(surface.id, surface.kind, to_si(surface.area, "area", units), u_si)
         )
@@ -313,7 +344,30 @@ def _upgrade(
         installed = cost.fixed + cost.per_length * surface.length
         return model.PipeInsulationUpgrade(upgrade.id, surface.id, r_si, installed, rebate, life)
     assert surface.area is not None
-    u_si = build.u_si(upgrade, path, upgrade.id)
+    if upgrade.ground is not None and surface.kind not in GROUND_SURFACE_KINDS:
+        build.problem(
+            f"{path}.ground",
+            f"'{surface.id}' is a {surface.kind}: a ground change needs a slab, basement_floor "
+            "or basement_wall",
+        )
+        return None
+    ground = merge_ground(surface.ground, upgrade.ground)
+    if ground is None:
+        u_si = build.u_si(upgrade, path, upgrade.id)
+    else:
+        new = any(x is not None for x in (upgrade.assembly, upgrade.r, upgrade.u))
+        surface_path = f"surfaces[{surface_index}]"
+        u_si = _ground_u_si(
+            build,
+            surface,
+            surface_path,
+            upgrade if new else surface,
+            path if new else surface_path,
+            ground,
+            path,
+            upgrade.id,
+            changed=frozenset(upgrade.ground.model_dump(exclude_none=True) if upgrade.ground else ()),
+        )
     before = next(s.u_si for s in house.surfaces if s.id == surface.id)
     if u_si >= before * (1 - 1e-12):
         r_before, r_after = from_si(1 / before, "r", units), from_si(1 / u_si, "r", units)
@@ -321,6 +375,93 @@ def _upgrade(
         build.warnings.append(f"{upgrade.id}: does not improve '{surface.id}' ({r_words})")
     installed = cost.fixed + cost.per_area * surface.area
     return model.AssemblyUpgrade(upgrade.id, surface.id, u_si, installed, rebate, life)
+
+
+
+def _ground_u_si(
+    build: _Build,
+    surface: SurfaceIn,
+    surface_path: str,
+    construction: SurfaceIn | UpgradeIn,
+    construction_path: str,
+    ground: GroundIn,
+    path: str,
+    label: str,
+    changed: frozenset[str] | None = None,
+) -> float:
+    """U [W/(m²·K)] over ``surface``'s area of a slab, basement floor or basement wall by ISO
+    13370 (:func:`server.services.ground.ground_surface`, the calculator's code path).
+
+    ``construction`` (the surface, or an upgrade with a new assembly, ``r`` or ``u``) gives
+    R_f / R_w: an assembly's R less its own films; ``r`` / ``u`` (films included) less ISO
+    13370's surface resistances. ``path`` is the surface's or upgrade's document path; for an
+    upgrade, ``changed`` lists its ground fields, and a problem with a ground field it did not
+    change is named on the surface.
+    """
+    units = build.units
+    kind = surface.kind
+    if construction.assembly is not None:
+        where = f"{construction_path}.assembly"
+        result = build._assembly(build._facing(construction, construction.assembly), where)
+        if construction_path == path:  # its warnings, once
+            build.warnings.extend(f"{label}: {note}" for note in result.warnings)
+        films = to_si(result.films.inside + result.films.outside, "r", units)
+        total = result.rsi_total
+        r_si = max(total - films, 0.0)
+    else:
+        name = "u" if construction.u is not None else "r"
+        where = f"{construction_path}.{name}"
+        total = (
+            1.0 / to_si(construction.u, "u", units)
+            if construction.u is not None
+            else to_si(construction.r or 0.0, "r", units)
+        )
+        try:
+            r_si = construction_r_from_total(total, kind)
+        except ValueError as exc:
+            raise InputError(where, str(exc)) from None
+    assert surface.area is not None  # document checked
+    try:
+        found = ground_surface(
+            kind=kind,
+            area_m2=to_si(surface.area, "area", units),
+            ground=ground,
+            construction_r_si=r_si,
+            air_u_si=1.0 / total,
+            units=units,
+            path=f"{path}.ground",
+            construction_field=where,
+        )
+    except InputError as exc:
+        inner = f"{path}.ground."
+        rest = exc.field[len(inner) :]
+        if changed is not None and exc.field.startswith(inner) and rest.split(".")[0] not in changed:
+            raise InputError(f"{surface_path}.ground.{rest}", exc.message) from None
+        raise
+    build.warnings.extend(f"{label}: {note}" for note in found.warnings)
+    return found.u_si
+
+#: Indoor design temperature when the document gives none, by unit system [°C]: 70 °F
+#: (21.11 °C) or 21 °C (the usual winter indoor design condition, common practice).
+INDOOR_DESIGN_C = {"ip": (70.0 - 32.0) * 5.0 / 9.0, "si": 21.0}
+
+#: Above this output capacity ÷ design heat loss the equipment is called oversized. From
+#: memory: common sizing practice (ACCA Manual S) lets a furnace's output reach about 140 %
+#: of the design load; a heat pump is sized much closer to the load.
+OVERSIZED_RATIO = 1.4
+
+
+def _design(doc: HouseDocument, ua_w_per_k: float) -> tuple[float | None, float | None]:
+    """Design heat loss [document units: Btu/h or W] and capacity ratio [-] of one variant."""
+    design = doc.climate.heating_design_temperature
+    if design is None:
+        return None, None
+    indoor = doc.climate.indoor_design_temperature
+    indoor_c = INDOOR_DESIGN_C[doc.units] if indoor is None else temp_to_c(indoor, doc.units)
+    loss_w = design_heat_loss(ua_w_per_k, indoor_c, temp_to_c(design, doc.units))
+    capacity = doc.heating.output_capacity
+    ratio = None if capacity is None else capacity_ratio(to_si(capacity, "power", doc.units), loss_w)
+    return from_si(loss_w, "power", doc.units), ratio
 
 
 def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) -> dict:
@@ -340,8 +481,10 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
             area=from_si(s.area_m2, "area", units),
             r=from_si(1.0 / s.u_si, "r", units),
             u=from_si(s.u_si, "u", units),
-            ua=ua(s.u_si * s.area_m2),
-            share_of_ua=s.u_si * s.area_m2 / total_ua if total_ua > 0 else 0.0,
+            ua=ua(energy.ua_by_surface_w_per_k[s.id]),
+            share_of_ua=energy.ua_by_surface_w_per_k[s.id] / total_ua if total_ua > 0 else 0.0,
+            adjacent=s.adjacent,
+            b=energy.spaces[s.adjacent].b if s.adjacent in energy.spaces else 1.0,
         )
         for s in house.surfaces
     ]
@@ -358,12 +501,14 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
     ]
     leak = house.air_leakage
     ach50 = None if leak is None else air_changes_at_50_pa(leak.flow50_m3_per_s, leak.volume_m3)
+    design_loss, ratio = _design(doc, total_ua)
     return {
         "ua": ua(total_ua),
         "ua_envelope": ua(energy.envelope_ua_w_per_k),
         "ua_infiltration": ua(energy.infiltration_ua_w_per_k),
         "ua_by_surface": {key: ua(value) for key, value in energy.ua_by_surface_w_per_k.items()},
         "surfaces": surfaces,
+        "spaces": _space_figures(doc, house, energy),
         "cfm50": None if leak is None else leak.flow50_m3_per_s / CFM_M3_PER_S,
         "ach50": ach50,
         "ach_natural": None if leak is None or ach50 is None else ach50 / leak.n_factor,
@@ -380,6 +525,9 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
         "heating_co2": energy.heating_co2_kg,
         "cooling_co2": energy.cooling_co2_kg,
         "co2": energy.co2_kg,
+        "co2_biogenic": energy.co2_biogenic_kg,
+        "design_heat_loss": design_loss,
+        "capacity_ratio": ratio,
     }
 
 
@@ -396,9 +544,18 @@ def _option(
     warnings = list(option.warnings)
     if money.annual_savings <= 0:
         warnings.append("saves nothing at today's prices, so it never pays back")
+    figures = _figures(doc, modified, option.energy)
+    ratio = figures["capacity_ratio"]
+    if ratio is not None and ratio > OVERSIZED_RATIO:
+        warnings.append(
+            f"after this package the heating equipment's output is {ratio:.1f} times the design "
+            f"heat loss (more than {OVERSIZED_RATIO:.1f}): it is oversized for the house, and a "
+            "smaller system (such as a heat pump) may qualify; have a licensed professional "
+            "size it by a room-by-room load calculation"
+        )
     flow = money.cash_flow
     return OptionFigures(
-        **_figures(doc, modified, option.energy),
+        **figures,
         id=option.id,
         name=name,
         upgrades=list(option.upgrade_ids),
@@ -468,6 +625,7 @@ def compute_house(
     """
     build = _Build(units=doc.units, catalog=catalog)
     _check_ids(doc, build)
+    _check_spaces(doc, build)
     econ = doc.economics
     try:
         economics.present_value_of_savings(
@@ -475,7 +633,7 @@ def compute_house(
         )
     except ValueError as exc:
         raise InputError("economics.discount_rate", str(exc)) from None
-    house = _house(doc, build)
+    house = _with_spaces(doc, _house(doc, build))
     pure = [_upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
     build.raise_problems()
     upgrades = [u for u in pure if u is not None]
@@ -503,13 +661,15 @@ def compute_house(
             fuel=_fuel(doc, house),
             analysis_years=doc.economics.years,
             step_order=STEP_ORDER,
-            assumptions=list(ASSUMPTIONS),
+            assumptions=list(ASSUMPTIONS) + _space_assumptions(doc),
             warnings=build.warnings,
         )
     except ValidationError as exc:  # the result parts refuse inf and NaN (FiniteOut)
         if any(error["type"] == "finite_number" for error in exc.errors()):
             raise InputError("body", TOO_LARGE) from None
         raise
+    calibrate(doc, result)  # with bills: calibration and each option's calibrated figures
+    attach_optimum(doc, house, upgrades, comparison.as_found, result)  # with optimize
     return result
 
 
@@ -526,3 +686,113 @@ def _variable_base(vb, units: str):  # type: ignore[no-untyped-def]
         bases_c=tuple(temp_to_c(row.base, units) for row in vb.table),  # type: ignore[arg-type]
         hdd_k_day=tuple(to_si(row.hdd, "degree_days", units) for row in vb.table),  # type: ignore[arg-type]
     )
+
+
+# --- buffer spaces (ISO 13789) -------------------------------------------------------------
+
+SPACE_ASSUMPTION = (
+    "Buffer spaces (ISO 13789): a surface facing an unconditioned space counts b · U · A, "
+    "b = H_ue / (H_iu + H_ue) recomputed for every variant; H_ue counts the space's exposed "
+    "parts and its air changes at 0.018 Btu/(ft³·°F); air moving between the house and the "
+    "space is not counted. Such surfaces take still-air films on that side (ASHRAE "
+    "Handbook—Fundamentals; ISO 6946 Rse = Rsi) unless their assembly says otherwise."
+)
+
+
+def _space_assumptions(doc: HouseDocument) -> list[str]:
+    return [SPACE_ASSUMPTION] if doc.spaces else []
+
+
+def _check_spaces(doc: HouseDocument, build: _Build) -> None:
+    """Space ids and what each surface faces; records the surfaces that take still air."""
+    ids = [space.id for space in doc.spaces]
+    for index, space in enumerate(doc.spaces):
+        path = f"spaces[{index}]"
+        if space.id in (buffers.OUTDOORS, buffers.GROUND):
+            build.problem(
+                f"{path}.id", f"'{space.id}' names what lies behind a surface with no space"
+            )
+        elif space.id in ids[:index]:
+            build.problem(f"{path}.id", f"'{space.id}' is used twice")
+        parts = [n for n in ("exposed", "volume", "air_changes") if getattr(space, n) is not None]
+        if space.b is not None and parts:
+            build.problem(
+                f"{path}.b",
+                f"give either b or exposed, volume and air_changes, not both (got {', '.join(parts)})",
+            )
+        elif space.b is None:
+            for name in ("volume", "air_changes"):
+                if getattr(space, name) is None:
+                    build.problem(f"{path}.{name}", "is required unless the space gives b")
+    known = set(ids)
+    facing: set[str] = set()
+    for index, surface in enumerate(doc.surfaces):
+        behind = surface.adjacent
+        if behind == buffers.OUTDOORS:
+            continue
+        path = f"surfaces[{index}].adjacent"
+        if surface.kind == "pipe_run":
+            build.problem(path, "a pipe run's surroundings are its pipe's ambient_temperature")
+        elif behind != buffers.GROUND and behind not in known:
+            choices = ", ".join(["outdoors", "ground", *ids])
+            build.problem(path, f"there is no space '{behind}' (choose one of: {choices})")
+        elif behind in known:
+            facing.add(surface.id)
+    build.raise_problems()
+    used = {s.adjacent for s in doc.surfaces}
+    build.warnings.extend(
+        f"space '{ident}': no surface faces it, so it changes nothing"
+        for ident in ids
+        if ident not in used
+    )
+    build.still_air = frozenset(facing)
+
+
+def _with_spaces(doc: HouseDocument, house: model.House) -> model.House:
+    """The pure house with what lies behind each surface and the buffer spaces in SI."""
+    if not doc.spaces and all(s.adjacent == buffers.OUTDOORS for s in doc.surfaces):
+        return house
+    units = doc.units
+    adjacent = {s.id: s.adjacent for s in doc.surfaces}
+    spaces = tuple(
+        buffers.BufferSpace(
+            id=space.id,
+            exposed=tuple(
+                buffers.ExposedPart(to_si(part.area, "area", units), to_si(part.u, "u", units))
+                for part in space.exposed or []
+            ),
+            volume_m3=0.0 if space.volume is None else to_si(space.volume, "volume", units),
+            air_changes_per_h=space.air_changes or 0.0,
+            b=space.b,
+        )
+        for space in doc.spaces
+    )
+    return replace(
+        house,
+        surfaces=tuple(replace(s, adjacent=adjacent.get(s.id, s.adjacent)) for s in house.surfaces),
+        spaces=spaces,
+    )
+
+
+def _space_figures(
+    doc: HouseDocument, house: model.House, energy: model.HouseEnergy
+) -> list[SpaceFigures]:
+    """Each buffer space's b, H_iu, H_ue in one evaluated house, in the document's units."""
+    figures = []
+    for space in doc.spaces:
+        found = energy.spaces[space.id]
+        figures.append(
+            SpaceFigures(
+                id=space.id,
+                label=space.label,
+                b=found.b,
+                b_given=found.b_given,
+                h_iu=from_si(found.h_iu_w_per_k, "ua", doc.units),
+                h_ue=None
+                if found.h_ue_w_per_k is None
+                else from_si(found.h_ue_w_per_k, "ua", doc.units),
+                ua=from_si(found.b * found.h_iu_w_per_k, "ua", doc.units),
+                surfaces=[s.id for s in house.surfaces if s.adjacent == space.id],
+            )
+        )
+    return figures

@@ -10,7 +10,9 @@ from sqlalchemy.orm import Session
 from server.documents.house import HouseDocument
 from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
+from server.services.house import compute_house
 from server.services.houses import create_house
+from server.services.library import catalog_for
 from server.services.price_book import items_for_house, priced_document
 
 #: defaults for a house whose systems are not entered yet (common practice, shown as assumptions)
@@ -54,6 +56,8 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
         body["cooling"] = house.cooling
     if house.air_leakage:
         body["air_leakage"] = house.air_leakage
+    _export_spaces(house, body)
+    _export_ground(house, body)
     try:
         return HouseDocument.model_validate(body)
     except ValidationError as exc:
@@ -77,7 +81,11 @@ def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
 
 
 def import_house(*, session: Session, organization_id: int, document: HouseDocument) -> House:
-    """Create a saved house from a document (the inverse of :func:`house_document`)."""
+    """Create a saved house from a document (the inverse of :func:`house_document`).
+
+    Nothing is stored for a document that cannot be computed: see :func:`check_computable`.
+    """
+    check_computable(session=session, organization_id=organization_id, document=document)
     house = create_house(
         session=session,
         organization_id=organization_id,
@@ -107,6 +115,8 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
             )
         )  # fmt: skip
     session.flush()
+    _import_spaces(house, document)
+    _import_ground(house, document)
     by_slug = {s.slug: s.id for s in house.surfaces}
     for i, u in enumerate(document.upgrades):
         doc = u.model_dump(exclude_none=True, exclude={"id", "name"})
@@ -127,3 +137,60 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
         )
     session.flush()
     return house
+
+
+def check_computable(*, session: Session, organization_id: int, document: HouseDocument) -> None:
+    """Refuse a document the firm's pages could not compute, naming the field.
+
+    The whole document goes through :func:`server.services.house.compute_house` (the one
+    code path of calc/house and the compare page) against the firm's catalog: the built-in
+    library plus the firm's own materials. So every material slug (homogeneous, cavity and
+    framing layers, of surfaces and upgrades), every upgrade's ``surface``, every package's
+    upgrade ids and every pipe run is checked, e.g. ``surfaces[2].assembly.layers[1].material``.
+    Another firm's material is not in this catalog: it is refused in the same words as a
+    misspelt slug, so its existence does not show.
+
+    Raises
+    ------
+    InputError
+        The first problem's field and message (HTTP 422).
+    """
+    catalog = catalog_for(session=session, organization_id=organization_id)
+    compute_house(document, catalog=catalog, upgrades_alone=False)
+
+
+def _export_spaces(house: House, body: dict[str, Any]) -> None:
+    """Buffer spaces (ISO 13789) and what each surface faces, into the document ``body``."""
+    if house.spaces:
+        body["spaces"] = house.spaces
+    behind = {row.slug: (row.details or {}).get("adjacent") for row in house.surfaces}
+    for surface in body["surfaces"]:
+        if behind.get(surface["id"]):
+            surface["adjacent"] = behind[surface["id"]]
+
+
+def _import_spaces(house: House, document: HouseDocument) -> None:
+    """The document's spaces onto the saved house; each surface's ``adjacent`` in its details."""
+    house.spaces = [space.model_dump(exclude_none=True) for space in document.spaces] or None
+    adjacent = {s.id: s.adjacent for s in document.surfaces}
+    for row in house.surfaces:
+        behind = adjacent.get(row.slug, "outdoors")
+        if behind != "outdoors":
+            row.details = {**(row.details or {}), "adjacent": behind}
+
+
+def _export_ground(house: House, body: dict[str, Any]) -> None:
+    """Each ground surface's ``ground`` object (ISO 13370), from its details, into ``body``."""
+    stored = {row.slug: (row.details or {}).get("ground") for row in house.surfaces}
+    for surface in body["surfaces"]:
+        if stored.get(surface["id"]):
+            surface["ground"] = stored[surface["id"]]
+
+
+def _import_ground(house: House, document: HouseDocument) -> None:
+    """Each surface's ``ground`` object (slab, basement floor or wall) into its details."""
+    grounds = {s.id: s.ground for s in document.surfaces if s.ground is not None}
+    for row in house.surfaces:
+        if row.slug in grounds:
+            ground = grounds[row.slug].model_dump(exclude_none=True)
+            row.details = {**(row.details or {}), "ground": ground}

@@ -7,8 +7,9 @@ from dataclasses import dataclass
 from typing import Any
 
 from sqlalchemy import func, or_, select
-from sqlalchemy.orm import Session, selectinload
+from sqlalchemy.orm import Session, object_session, selectinload
 
+from server.db import lost_race
 from server.documents.assembly import AssemblyInput, AssemblyResult
 from server.documents.common import Units
 from server.errors import InputError
@@ -143,8 +144,33 @@ def check_version(house: House, expected_version: int | None) -> None:
 
 
 def touch(house: House) -> None:
-    """Mark the house changed: bumps ``version`` (optimistic lock) and ``updated_at``."""
+    """Mark the house changed and write every pending change of its session now.
+
+    The write bumps ``version`` (optimistic lock) and ``updated_at``; its UPDATE matches the
+    row only while the version is still the one this request read. So of two saves made at
+    the same instant from the same version (two people, two tabs), one is written and the
+    other raises :class:`Conflict`, the same answer as a form loaded before someone else's
+    save: its changes are rolled back, nothing of it is stored (see :func:`write_or_conflict`).
+    """
     house.updated_at = utcnow()
+    session = object_session(house)
+    if session is not None:
+        write_or_conflict(session, house)
+
+
+def write_or_conflict(session: Session, house: House) -> None:
+    """Flush ``session``; when the database says another save of the house got there first
+    (:func:`server.db.lost_race`), roll this request's changes back and raise :class:`Conflict`
+    with the version now stored. The session stays usable for the conflict page."""
+    house_id = house.id
+    try:
+        session.flush()
+    except Exception as exc:
+        if not lost_race(exc):
+            raise
+        session.rollback()
+        stored = session.scalar(select(House.version).where(House.id == house_id))
+        raise Conflict(stored or 0) from exc
 
 
 def unique_slug(text: str, taken: set[str], fallback: str = "surface") -> str:

@@ -1,4 +1,4 @@
-"""Read an uploaded weather file (bytes, no file I/O) into a dry-bulb temperature series.
+"""Read an uploaded weather file into a dry-bulb temperature series, one bounded line at a time.
 
 Kinds read:
 
@@ -17,21 +17,33 @@ hour 23 of the same day), so grouping by date gives whole days. Problems that st
 result become plain-words warnings; an unreadable file raises
 :class:`server.errors.InputError` with ``field="file"``.
 
-Speed: the EPW and TMY3 readers pull only the needed fields with one compiled regular
-expression over the whole text and convert with ``map``: an 8,760-hour file takes a few ms.
+Bounded reading: the file (bytes, or a seekable binary file such as an upload's spooled
+temporary file) is read through a text wrapper one line at a time; no line longer than
+:data:`MAX_LINE_CHARS` is read whole, and the read stops with an error as soon as the file has
+more than :data:`MAX_DATA_LINES` non-blank lines, however large the file is. Each row keeps
+only the fields used (its date and time texts, shared between rows that repeat them, and its
+temperature as a float in an ``array('d')``), so a file's whole footprint is a few MB at most.
+
+Speed: the EPW and TMY3 readers match one compiled regular expression per line that captures
+only the needed fields, and the CSV reader keeps only the used cells of each split line: an
+8,760-hour file takes about 15 ms of CPU.
 """
 
 from __future__ import annotations
 
+import codecs
 import csv
+import io
 import math
 import re
 import statistics
-from collections.abc import Callable, Sequence
+from array import array
+from collections.abc import Callable, Iterable, Iterator, Sequence
 from dataclasses import dataclass, field
 from datetime import date, datetime
-from itertools import repeat
+from itertools import chain, islice, repeat
 from operator import add, floordiv, itemgetter, methodcaller, mod
+from typing import Any, BinaryIO
 
 from server.errors import InputError
 from server.physics.units import f_to_c
@@ -39,6 +51,28 @@ from server.physics.units import f_to_c
 #: Plausible outdoor dry-bulb range [°C] (common practice: wider than the record of any
 #: inhabited place); values outside it are left out and counted.
 PLAUSIBLE_RANGE_C = (-70.0, 60.0)
+#: Rows in the longest weather year [rows]: 366 days x 24 hours (a leap year of hourly
+#: values; a daily year is at most 366 rows).
+MAX_YEAR_ROWS = 8784
+#: Most non-blank lines read [lines]: a leap year of hourly rows plus a margin for header
+#: lines (EPW has 8; a CSV's header row is looked for in its first 40 lines) and a few extra
+#: rows (a repeated hour at a clock change, the next year's first hour) (common practice).
+#: A longer file is refused as soon as its next line is read, before the rest is.
+MAX_DATA_LINES = MAX_YEAR_ROWS + 64
+#: Longest line read [characters]: an EPW row is about 150, a TMY3 row about 200 (common
+#: practice); a longer "line" is not a weather row and is not read whole.
+MAX_LINE_CHARS = 4096
+#: Blank lines are not kept but take time to read: at most this many in all.
+MAX_BLANK_LINES = 4 * MAX_DATA_LINES
+#: Longest date or time text kept for a row [characters]; a longer cell is no date.
+MAX_KEY_CHARS = 64
+#: Bytes looked at to tell a text file from an archive or a binary file.
+SNIFF_BYTES = 8192
+TOO_MANY_LINES = (
+    f"the file has more than {MAX_DATA_LINES:,} lines: a weather year is at most "
+    f"{MAX_YEAR_ROWS:,} hourly rows (366 days of 24 hours) or 366 daily rows; upload one "
+    "year of hourly or daily data"
+)
 NOT_WEATHER = (
     "this is not a weather file Warmstead can read: upload an EPW file, a TMY3 file, or a CSV "
     "with a timestamp column and a temperature column"
@@ -90,7 +124,7 @@ class WeatherSeries:
 class _Raw:
     kind: str
     stamps: list[int]  # minutes since day 1 of year 1 (hourly) or date ordinals (daily)
-    values: list[float]  # °C, NaN = missing or unreadable
+    values: Sequence[float]  # °C, NaN = missing or unreadable
     hourly: bool
     notes: list[str] = field(default_factory=list)
     station: str | None = None
@@ -103,44 +137,83 @@ def _fail(message: str, field_name: str = "file") -> InputError:
     return InputError(field=field_name, message=message)
 
 
-def _decode(data: bytes) -> str:
-    if not data or (not data[:4096].strip() and not data.strip()):
-        raise _fail("the file is empty")
-    if data[:2] == b"PK":
-        raise _fail("the file is a ZIP archive: unzip it and upload the .epw or .csv inside")
-    if data[:2] == b"\x1f\x8b":
-        raise _fail("the file is gzip-compressed: decompress it and upload the text file")
-    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
-        text = data.decode("utf-16", errors="replace")
-    elif b"\x00" in data[:8192]:
-        raise _fail("the file is binary, not a text weather file")
-    else:
-        try:
-            text = data.decode("utf-8-sig")
-        except UnicodeDecodeError:
-            text = data.decode("latin-1")
-    head = text[:8192]
-    if not text.strip():
-        raise _fail("the file is empty")
-    if len(_CONTROL.findall(head)) > len(head) // 100:
-        raise _fail("the file is binary, not a text weather file")
-    if "\n" not in text:
-        text = text.replace("\r", "\n")
-    return text
+def _latin1_fallback(error: UnicodeError) -> tuple[str, int]:
+    """Codec error handler: bytes that are not UTF-8 are read as Latin-1 (one char a byte)."""
+    if not isinstance(error, UnicodeDecodeError):
+        raise error
+    return error.object[error.start : error.end].decode("latin-1"), error.end
 
 
-def _floats(texts: Sequence[str]) -> list[float]:
-    """Parse numbers; NaN where a cell is blank or not a number."""
+codecs.register_error("warmstead-latin1", _latin1_fallback)
+
+
+class _Lines:
+    """The text lines of an uploaded file (newline removed), read one at a time, bounded.
+
+    UTF-16 when the file starts with its byte-order mark, else UTF-8 (a leading BOM
+    dropped) with any byte that is not UTF-8 read as Latin-1; ``\\r\\n``, ``\\r`` and ``\\n``
+    all end a line. Raises :class:`InputError` for an empty, compressed or binary file, a line
+    longer than :data:`MAX_LINE_CHARS`, or more than :data:`MAX_DATA_LINES` non-blank lines.
+    """
+
+    def __init__(self, stream: BinaryIO) -> None:
+        start = stream.tell()
+        head = stream.read(SNIFF_BYTES)
+        stream.seek(start)
+        if not head:
+            raise _fail("the file is empty")
+        if head[:2] == b"PK":
+            raise _fail("the file is a ZIP archive: unzip it and upload the .epw or .csv inside")
+        if head[:2] == b"\x1f\x8b":
+            raise _fail("the file is gzip-compressed: decompress it and upload the text file")
+        if head[:2] in (b"\xff\xfe", b"\xfe\xff"):
+            encoding, errors = "utf-16", "replace"
+        elif b"\x00" in head:
+            raise _fail("the file is binary, not a text weather file")
+        else:
+            encoding, errors = "utf-8-sig", "warmstead-latin1"
+        text = head.decode(encoding, errors="replace" if encoding == "utf-16" else errors)
+        if len(_CONTROL.findall(text)) > len(text) // 100:
+            raise _fail("the file is binary, not a text weather file")
+        self._text = io.TextIOWrapper(stream, encoding=encoding, errors=errors, newline=None)  # type: ignore[arg-type]
+        self.filled = 0  # non-blank lines read so far
+        self._blank = 0
+
+    def __iter__(self) -> Iterator[str]:
+        return self
+
+    def __next__(self) -> str:
+        line = self._text.readline(MAX_LINE_CHARS + 1)
+        if not line:
+            raise StopIteration
+        if line.endswith("\n"):
+            line = line[:-1]
+        elif len(line) > MAX_LINE_CHARS:
+            raise _fail(
+                f"line {self.filled + self._blank + 1:,} is longer than {MAX_LINE_CHARS:,} "
+                "characters; a weather file's rows are a few hundred characters at most"
+            )
+        if line and not line.isspace():
+            self.filled += 1
+            if self.filled > MAX_DATA_LINES:
+                raise _fail(TOO_MANY_LINES)
+        else:
+            self._blank += 1
+            if self._blank > MAX_BLANK_LINES:
+                raise _fail(f"the file has more than {MAX_BLANK_LINES:,} blank lines")
+        return line
+
+    def close(self) -> None:
+        """Let go of the binary file without closing it (its owner closes it)."""
+        self._text.detach()
+
+
+def _number(text: str) -> float:
+    """A cell's number; NaN where it is blank or not a number."""
     try:
-        return list(map(float, texts))
+        return float(text)
     except ValueError:
-        out = []
-        for text in texts:
-            try:
-                out.append(float(text))
-            except ValueError:
-                out.append(math.nan)
-        return out
+        return math.nan
 
 
 def _day_number(year: str | int, month: str | int, day: str | int) -> int | None:
@@ -150,34 +223,50 @@ def _day_number(year: str | int, month: str | int, day: str | int) -> int | None
         return None
 
 
-def _fields_pattern(groups: tuple[tuple[int, ...], ...], fast: bool) -> re.Pattern[str]:
-    """A regex capturing, per line, each group of adjacent 0-based comma-separated fields.
+def _line_pattern(groups: tuple[tuple[int, ...], ...]) -> re.Pattern[str]:
+    """A regex capturing, in one line, each group of adjacent 0-based comma-separated fields.
 
     ``((0, 1, 2), (6,))`` captures ``"2001,1,31"`` and field 6: one string per group, so the
-    captured keys hash fast and repeat (one distinct date string per day). ``fast`` skips
-    fields with ``[^,]*+,`` written out one by one (the quickest form for the regex engine),
-    which could run past the end of a short line: :func:`_rows` then checks the row count
-    and falls back to the exact pattern.
+    captured keys hash fast and repeat (one distinct date string per day).
     """
-    skip = "[^,]*+," if fast else "[^,\\n]*+,"
+    field_text = "[^,]*+"
     parts, at = ["^"], 0
     for group in groups:
-        parts.append(skip * (group[0] - at))
-        parts.append("(" + ",".join(["[^,\\n]*+"] * len(group)) + ")")
+        parts.append((field_text + ",") * (group[0] - at))
+        parts.append("(" + ",".join([field_text] * len(group)) + ")")
         at = group[-1] + 1
         parts.append(",")
-    parts[-1] = "[^\\n]*+"
-    return re.compile("".join(parts), re.MULTILINE)
+    parts[-1] = ""
+    return re.compile("".join(parts))
 
 
-def _rows(body: str, groups: tuple[tuple[int, ...], ...]) -> tuple[list[tuple[str, ...]], int]:
-    """Captured groups of every data line, and the number of non-blank lines."""
-    lines = body.count("\n") + (not body.endswith("\n"))
-    rows = _fields_pattern(groups, fast=True).findall(body)
-    if len(rows) != lines:  # a blank, short or odd line: read again exactly, count exactly
-        rows = _fields_pattern(groups, fast=False).findall(body)
-        lines = sum(1 for line in body.splitlines() if line.strip())
-    return rows, lines
+def _match_rows(
+    lines: Iterable[str], groups: tuple[tuple[int, ...], ...]
+) -> tuple[list[str], list[str], array[float], int]:
+    """Day keys, clock keys and temperatures of the lines that match, and the non-blank count.
+
+    ``groups`` are the day, clock and temperature fields. Equal keys are stored once.
+    """
+    pattern = _line_pattern(groups)
+    shared: dict[str, str] = {}
+    days: list[str] = []
+    clocks: list[str] = []
+    values: array[float] = array("d")
+    filled = 0
+    for line in lines:
+        if not line.strip():
+            continue
+        filled += 1
+        match = pattern.match(line)
+        if match is None:
+            continue
+        day, clock, temperature = match.groups()
+        if len(day) > MAX_KEY_CHARS or len(clock) > MAX_KEY_CHARS:
+            continue
+        days.append(shared.setdefault(day, day))
+        clocks.append(shared.setdefault(clock, clock))
+        values.append(_number(temperature))
+    return days, clocks, values, filled
 
 
 def _assemble(
@@ -185,7 +274,7 @@ def _assemble(
     lines: int,
     day_keys: Sequence[object],
     clock_keys: Sequence[object],
-    temperatures: Sequence[str],
+    values: Sequence[float],
     day_of: Callable[[object], int | None],
     minute_of: Callable[[object], int | None],
     marker: float,
@@ -193,7 +282,6 @@ def _assemble(
     """Stamps from day and clock keys, each mapped once through a cache (few are distinct)."""
     days = {key: day_of(key) for key in set(day_keys)}
     clocks = {key: minute_of(key) for key in set(clock_keys)}
-    values = _floats(temperatures)
     if None in days.values() or None in clocks.values():
         keep = [
             i
@@ -229,25 +317,24 @@ def _hour_ending(hour_text: str, minute_text: str = "0") -> int | None:
     return (hour - 1) * 60 + minute if 1 <= hour <= 24 else None
 
 
-def _read_epw(text: str) -> _Raw:
-    parts = text.split("\n", 8)
-    if len(parts) < 9 or not parts[8].strip():
+def _read_epw(lines: Iterator[str]) -> _Raw:
+    header = list(islice(lines, 8))
+    days, clocks, values, filled = _match_rows(lines, ((0, 1, 2), (3, 4), (6,)))
+    if len(header) < 8 or not filled:
         raise _fail("the EPW file has no data rows after its 8 header lines")
-    rows, lines = _rows(parts[8], ((0, 1, 2), (3, 4), (6,)))
-    if not rows:
+    if not values:
         raise _fail("the EPW file has no data rows that can be read")
-    days, clocks, temperatures = zip(*rows, strict=True)
     raw = _assemble(
         "epw",
-        lines,
+        filled,
         days,
         clocks,
-        temperatures,
+        values,
         lambda key: _day_number(*str(key).split(",")),
         lambda key: _hour_ending(*str(key).split(",")),
         99.9,  # missing dry-bulb marker, EPW data dictionary
     )
-    location = parts[0].split(",")
+    location = header[0].split(",")
     raw.station = (location[1].strip() or None) if len(location) > 1 else None
     return raw
 
@@ -258,8 +345,8 @@ def _tmy3_day(key: object) -> int | None:
     return _day_number(year, month, day)
 
 
-def _read_tmy3(text: str) -> _Raw:
-    first, header, body = (text.split("\n", 2) + ["", ""])[:3]
+def _read_tmy3(lines: Iterator[str]) -> _Raw:
+    first, header = (list(islice(lines, 2)) + ["", ""])[:2]
     names = [c.strip() for c in next(csv.reader([header]))]
     try:
         wanted = [names.index(n) for n in ("Date (MM/DD/YYYY)", "Time (HH:MM)", "Dry-bulb (C)")]
@@ -267,16 +354,15 @@ def _read_tmy3(text: str) -> _Raw:
         raise _fail("the TMY3 file has no 'Dry-bulb (C)', date or time column") from None
     if wanted != sorted(wanted):
         raise _fail("the TMY3 file's date, time and dry-bulb columns are out of order")
-    rows, lines = _rows(body, tuple((i,) for i in wanted))
-    if not rows:
+    dates, times, values, filled = _match_rows(lines, tuple((i,) for i in wanted))
+    if not values:
         raise _fail("the TMY3 file has no data rows that can be read")
-    dates, times, temperatures = zip(*rows, strict=True)
     raw = _assemble(
         "tmy3",
-        lines,
+        filled,
         dates,
         times,
-        temperatures,
+        values,
         _tmy3_day,
         lambda key: _hour_ending(str(key).partition(":")[0]),
         -9900.0,  # missing-value marker, TMY3 users' manual
@@ -442,9 +528,54 @@ def _find_header(
     raise _fail(NOT_WEATHER)
 
 
-def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str) -> _Raw:
-    lines = text.splitlines()
-    header_at, names, delimiter, temp_cols, notes = _find_header(lines, wanted)
+def _csv_rows(
+    lines: Iterable[str], delimiter: str, time_cols: list[int], temp_cols: list[int]
+) -> tuple[list[Any], array[float], int]:
+    """Each data row's time texts and temperature, and the number of rows skipped.
+
+    A row's time texts are one string for one time column, else a tuple in ``time_cols``
+    order; only those cells and the temperature are kept, and a pair of temperature columns
+    (max, min) gives their mean.
+    """
+    width = max(time_cols + temp_cols) + 1
+    decimal_comma = delimiter == ";"
+    take_time = itemgetter(*time_cols)
+    one_time = len(time_cols) == 1
+    first_temp, last_temp = temp_cols[0], temp_cols[-1]
+    times: list[Any] = []
+    values: array[float] = array("d")
+    skipped = 0
+    for line in lines:
+        if '"' in line:
+            try:
+                row = next(csv.reader([line], delimiter=delimiter), [])
+            except csv.Error:
+                row = []
+        else:
+            row = line.split(delimiter)
+        if len(row) < width:  # blank or short rows
+            skipped += bool("".join(row).strip())
+            continue
+        stamp = take_time(row)
+        if (len(stamp) if one_time else max(map(len, stamp))) > MAX_KEY_CHARS:
+            skipped += 1
+            continue
+        times.append(stamp)
+        first, last = row[first_temp], row[last_temp]
+        if decimal_comma:
+            first, last = first.replace(",", "."), last.replace(",", ".")
+        try:
+            value = float(first) if first_temp == last_temp else (float(first) + float(last)) / 2
+        except ValueError:
+            value = (_number(first) + _number(last)) / 2
+        values.append(value)
+    return times, values, skipped
+
+
+def _read_csv(
+    head: list[str], rest: Iterator[str], wanted: str | None, unit: str | None, default_unit: str
+) -> _Raw:
+    header_at, names, delimiter, temp_cols, notes = _find_header(head, wanted)
     if unit is None:
         unit = _unit_hint([names[i] for i in temp_cols])
         if unit is None:
@@ -454,35 +585,28 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
                 f"no unit; its values were read as °{unit}; send temperature_unit to say otherwise"
             )
     layout, time_cols = _time_layout(names)
-    body = lines[header_at + 1 :]
-    split = (
-        list(csv.reader(body, delimiter=delimiter))
-        if any('"' in line for line in body)
-        else list(map(methodcaller("split", delimiter), body))
+    rows, numbers, skipped = _csv_rows(
+        chain(head[header_at + 1 :], rest), delimiter, time_cols, temp_cols
     )
-    width = max(time_cols + temp_cols) + 1
-    rows, skipped = split, 0
-    if split and min(map(len, split)) < width:  # blank or short rows
-        rows = [row for row in split if len(row) >= width]
-        skipped = sum(1 for row in split if len(row) < width and "".join(row).strip())
     if not rows:
         raise _fail("the file has a header but no data rows")
 
-    def column(index: int) -> list[str]:
-        return list(map(itemgetter(index), rows))
+    def column(position: int) -> list[str]:
+        """The texts of the ``position``-th time column."""
+        return rows if len(time_cols) == 1 else list(map(itemgetter(position), rows))
 
     day_of: Callable[[object], int | None]
     if layout == "ymdh":
-        day_keys: list[object] = list(zip(*(column(i) for i in time_cols[:3]), strict=True))
-        hours = column(time_cols[3]) if len(time_cols) > 3 else None
+        day_keys: list[object] = list(zip(*(column(i) for i in range(3)), strict=True))
+        hours = column(3) if len(time_cols) > 3 else None
         clock_keys: list[object] = [f"{h.strip()}:00" for h in hours] if hours else [""] * len(rows)
         day_of = lambda key: _day_number(*key)  # type: ignore[misc]  # noqa: E731
     else:
         if layout == "date+time":
-            day_keys = [text.strip() for text in column(time_cols[0])]
-            clock_keys = [text.strip() for text in column(time_cols[1])]
+            day_keys = [text.strip() for text in column(0)]
+            clock_keys = [text.strip() for text in column(1)]
         else:
-            stamps_text = column(time_cols[0])
+            stamps_text = column(0)
             separator = "T" if re.match(r"\s*\d[\d/.-]*T\d", stamps_text[0]) else None
             pieces = list(map(methodcaller("split", separator, 1), stamps_text))
             sizes = set(map(len, pieces))  # 2: date and clock; 1: date only; 0: blank
@@ -493,15 +617,7 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
                 day_keys = [p[0].strip() if p else "" for p in pieces]
                 clock_keys = [p[1].strip() if len(p) > 1 else "" for p in pieces]
         day_of = _date_reader({str(key) for key in day_keys})
-    texts = [column(i) for i in temp_cols]
-    if delimiter == ";":  # decimal commas
-        texts = [[text.replace(",", ".") for text in col] for col in texts]
-    numbers = [_floats(col) for col in texts]
-    values = (
-        numbers[0] if len(numbers) == 1 else [(a + b) / 2 for a, b in zip(*numbers, strict=True)]
-    )
-    if unit == "F":
-        values = list(map(f_to_c, values))
+    values: Sequence[float] = list(map(f_to_c, numbers)) if unit == "F" else numbers
     distinct_days, distinct_clocks = set(day_keys), set(clock_keys)
     days = {key: day for key in distinct_days if (day := day_of(key)) is not None}
     clocks = {key: m for key in distinct_clocks if (m := _clock_minutes(key)) is not None}
@@ -544,7 +660,7 @@ def _read_csv(text: str, wanted: str | None, unit: str | None, default_unit: str
     return _Raw("csv-hourly", stamps, values, True, notes, skipped=skipped, sub_hourly=not on_hour)
 
 
-def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], list[float]]:
+def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], Sequence[float]]:
     low, high = PLAUSIBLE_RANGE_C
     stamps, values = raw.stamps, raw.values
     total = math.fsum(values) if values else math.nan
@@ -569,7 +685,7 @@ def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], list[float]
     return stamps, values
 
 
-def _dedupe(raw: _Raw, stamps: list[int], values: list[float], notes: list[str]):
+def _dedupe(raw: _Raw, stamps: list[int], values: Sequence[float], notes: list[str]):
     if len(set(stamps)) < len(stamps):
         first: dict[int, float] = {}
         for stamp, value in zip(stamps, values, strict=True):
@@ -693,7 +809,7 @@ def _note_gaps(positions: list[int], stamps: list[int], hourly: bool, notes: lis
 
 
 def parse_weather_file(
-    data: bytes,
+    data: bytes | BinaryIO,
     *,
     temperature_column: str | None = None,
     temperature_unit: str | None = None,
@@ -703,8 +819,9 @@ def parse_weather_file(
 
     Parameters
     ----------
-    data : bytes
-        The uploaded file's content.
+    data : bytes or binary file
+        The uploaded file's content, or a seekable binary file holding it (read from its
+        current position, one bounded line at a time; left open).
     temperature_column : str, optional
         Plain CSV only: the name of the temperature column (otherwise found by name).
     temperature_unit : {"C", "F"}, optional
@@ -716,20 +833,27 @@ def parse_weather_file(
     Raises
     ------
     InputError
-        ``field="file"`` for an empty, binary or unreadable file, or one that is not a weather
-        file; ``field="temperature_column"`` when the named column is not there.
+        ``field="file"`` for an empty, binary or unreadable file, one that is not a weather
+        file, or one longer than a weather year (:data:`MAX_DATA_LINES`, refused before the
+        rest is read); ``field="temperature_column"`` when the named column is not there.
     """
     for name, unit in (("temperature_unit", temperature_unit), ("default_unit", default_unit)):
         if unit is not None and unit not in ("C", "F"):
             raise _fail("must be C or F", name)
-    text = _decode(data)
-    head = text[:65536].splitlines()
-    if head[0].lstrip().upper().startswith("LOCATION,"):
-        raw = _read_epw(text)
-    elif len(head) > 1 and "Date (MM/DD/YYYY)" in head[1] and "Dry-bulb (C)" in head[1]:
-        raw = _read_tmy3(text)
-    else:
-        raw = _read_csv(text, temperature_column, temperature_unit, default_unit)
+    lines = _Lines(io.BytesIO(data) if isinstance(data, bytes | bytearray) else data)
+    try:
+        head = list(islice(lines, 40))  # where a CSV's header row is looked for
+        if not any(line.strip() for line in head) and not any(line.strip() for line in lines):
+            raise _fail("the file is empty")
+        rest = chain(head, lines)
+        if head[0].lstrip().upper().startswith("LOCATION,"):
+            raw = _read_epw(rest)
+        elif len(head) > 1 and "Date (MM/DD/YYYY)" in head[1] and "Dry-bulb (C)" in head[1]:
+            raw = _read_tmy3(rest)
+        else:
+            raw = _read_csv(head, lines, temperature_column, temperature_unit, default_unit)
+    finally:
+        lines.close()
     if raw.kind in ("epw", "tmy3") and (temperature_column or temperature_unit not in (None, "C")):
         raw.notes.append(
             f"temperature_column and temperature_unit apply to plain CSV files; the {raw.kind} "

@@ -35,6 +35,7 @@ from server.security import CSRF_FIELD, CSRF_HEADER, tokens_match
 from server.services import accounts
 from server.services.houses import NotFound
 from server.web import formatting
+from server.web.idempotency import idempotency_field
 
 SAFE_METHODS = frozenset({"GET", "HEAD", "OPTIONS", "TRACE"})
 PUBLIC_PATHS = frozenset({"/login", "/healthz", "/openapi.json", "/docs", "/docs/oauth2-redirect",
@@ -152,6 +153,7 @@ async def get_current_user(request: Request, session: SessionDep) -> User | None
             session=session,
             user_id=data.user_id,
             session_version=data.session_version,
+            nonce=data.nonce,
         )
     user = found[0] if found else None
     request.state.organization = found[1] if found else None
@@ -276,6 +278,7 @@ def make_templates(*, auto_reload: bool = True) -> Jinja2Templates:
     templates.env.auto_reload = auto_reload
     templates.env.globals["csrf_field"] = csrf_field
     templates.env.globals["csrf_token"] = csrf_token
+    templates.env.globals["idempotency_field"] = idempotency_field
     templates.env.globals["current_user"] = current_user
     templates.env.filters.update(formatting.FILTERS)
     templates.env.globals.update(formatting.GLOBALS)

@@ -9,6 +9,7 @@ from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
 from server.errors import InputError
 from server.services.houses import Conflict
+from server.services.number_text import NumberTextError, read_integer
 from server.services.typical import typical_assemblies
 from server.web.forms import form_version
 from server.web.layer_form import (
@@ -56,10 +57,13 @@ def run_editor(
     and the HTTP status the plain (non-htmx) page should have.
     """
     try:
-        count = min(int(data.get("layer_count", "0")), MAX_LAYERS)
-    except ValueError:
+        count = min(read_integer(data.get("layer_count", "0") or "0", low=0), MAX_LAYERS)
+    except NumberTextError:
         count = 0
-    version = form_version(data)
+    try:
+        version, version_error = form_version(data), ""
+    except InputError as exc:
+        version, version_error = None, exc.message
     form = form_from_post(data, count)
     action = data.get("action", "")
     if action.startswith("typical:") and action[8:] in typical_assemblies():
@@ -71,7 +75,10 @@ def run_editor(
     result = None
     status = 200
     doc = document_from_form(form, units)
-    if doc is None:
+    if version_error:
+        form.errors["version"] = version_error
+        status = 422
+    elif doc is None:
         status = 422
     else:
         try:

@@ -13,8 +13,18 @@ from typing import Any
 from pydantic import BaseModel, ValidationError
 
 from server.api.errors import field_path
-from server.documents.house import AirLeakageIn, ClimateIn, CoolingIn, EconomicsIn, HeatingIn
+from server.documents.common import UnitSpan
+from server.documents.house import (
+    DEGREE_DAYS,
+    VOLUME,
+    AirLeakageIn,
+    ClimateIn,
+    CoolingIn,
+    EconomicsIn,
+    HeatingIn,
+)
 from server.physics.fuels import FUELS
+from server.services.number_text import NumberTextError, read_decimal, read_integer
 
 
 @dataclass(frozen=True)
@@ -83,7 +93,26 @@ def _set(doc: dict[str, Any], path: str, value: Any) -> None:
     doc[parts[-1]] = value
 
 
-def form_values(section: str, stored: dict[str, Any] | None) -> dict[str, str]:
+#: fields whose bounds depend on the unit system (server/documents/house.py)
+UNIT_SPANS: dict[str, UnitSpan] = {"hdd": DEGREE_DAYS, "cdd": DEGREE_DAYS, "volume": VOLUME}
+
+
+def _shown(value: float, key: str, units: str | None) -> str:
+    """Ten significant digits, or every digit when rounding would carry a value at its bound
+    (1 ft³ switched to m³) outside it, so the form takes back what it shows."""
+    text = f"{value:.10g}"
+    span = UNIT_SPANS.get(key)
+    if span is not None and units is not None:
+        try:
+            span.check(float(text), units)
+        except ValueError:
+            return repr(value)
+    return text
+
+
+def form_values(
+    section: str, stored: dict[str, Any] | None, units: str | None = None
+) -> dict[str, str]:
     """Stored document -> text shown in the section's inputs."""
     out: dict[str, str] = {}
     for f in SECTIONS[section][2]:
@@ -93,21 +122,24 @@ def form_values(section: str, stored: dict[str, Any] | None) -> dict[str, str]:
         elif f.percent:
             out[f.key] = f"{value * 100:.6g}"
         elif isinstance(value, float):
-            out[f.key] = f"{value:.10g}"
+            out[f.key] = _shown(value, f.key, units)
         else:
             out[f.key] = str(value)
     return out
 
 
 def parse_section(
-    section: str, data: dict[str, str]
+    section: str, data: dict[str, str], *, units: str = "ip"
 ) -> tuple[dict[str, Any] | None, dict[str, str]]:
-    """Posted text -> (validated document or None, {field key: message})."""
+    """Posted text -> (validated document or None, {field key: message}).
+
+    Numbers are read by :mod:`server.services.number_text` (a decimal comma only in a metric
+    house); bounds that depend on the unit system are checked in ``units``."""
     _, model, fields = SECTIONS[section]
     doc: dict[str, Any] = {}
     errors: dict[str, str] = {}
     for f in fields:
-        text = (data.get(f.key) or "").replace(",", "").strip().rstrip("%").strip()
+        text = (data.get(f.key) or "").strip().rstrip("%").strip()
         if not text:
             if not f.optional:
                 errors[f.key] = "required"
@@ -119,26 +151,21 @@ def parse_section(
                 _set(doc, f.key, text)
             continue
         try:
-            number = float(text)
-        except ValueError:
-            errors[f.key] = f"'{data.get(f.key)}' is not a number"
-            continue
-        if f.percent:
-            number /= 100
-        if f.integer:
-            if number != int(number):
-                errors[f.key] = "must be a whole number"
+            if f.integer:
+                _set(doc, f.key, read_integer(text))
                 continue
-            _set(doc, f.key, int(number))
-        else:
-            _set(doc, f.key, number)
+            number = read_decimal(text, decimal_comma=units == "si")
+        except NumberTextError as exc:
+            errors[f.key] = str(exc)
+            continue
+        _set(doc, f.key, number / 100 if f.percent else number)
     if section == "economics" and "loan" in doc and len(doc["loan"]) == 1:
         missing = "loan.years" if "apr" in doc["loan"] else "loan.apr"
-        errors[missing] = "give both the loan APR and its term, or neither"
+        errors.setdefault(missing, "give both the loan APR and its term, or neither")
     if errors:
         return None, errors
     try:
-        validated = model.model_validate(doc)
+        validated = model.model_validate(doc, context={"units": units})
     except ValidationError as exc:
         for err in exc.errors():
             key = field_path(err.get("loc", ())).replace("[", ".").replace("]", "") or "form"

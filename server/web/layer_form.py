@@ -15,7 +15,8 @@ from pydantic import ValidationError
 from server.api.errors import field_path
 from server.documents.assembly import AssemblyInput
 from server.documents.common import Units
-from server.physics.units import INCH_M, format_inches, parse_length
+from server.physics.units import INCH_M, format_inches
+from server.services.number_text import NumberTextError, read_decimal, read_length
 from server.web.forms import parse_length_field
 
 LAYER_TYPES = {
@@ -72,7 +73,7 @@ def _length_text(value: float | None, units: Units) -> str:
     if units == "ip":
         text = format_inches(value * INCH_M, 16).rstrip('"')
         # keep decimals that a fraction would round
-        return text if abs(parse_length(text) / INCH_M - value) < 1e-6 else _num(value)
+        return text if abs(read_length(text) / INCH_M - value) < 1e-6 else _num(value)
     return _num(value)
 
 
@@ -131,26 +132,18 @@ def form_from_post(data: dict[str, str], count: int) -> AssemblyForm:
     return form
 
 
-def _parse_number(layer: LayerForm, key: str, *, positive: bool = True) -> float | None:
-    text = layer.get(key).replace(",", ".").rstrip("%").strip()
+def _parse_number(
+    layer: LayerForm, key: str, units: Units, *, positive: bool = True
+) -> float | None:
+    text = layer.get(key).rstrip("%").strip()
     if not text:
         layer.errors[key] = "required"
         return None
     try:
-        value = float(text)
-    except ValueError:
-        layer.errors[key] = f"'{layer.get(key)}' is not a number"
+        return read_decimal(text, decimal_comma=units == "si", low=0.0, low_open=positive)
+    except NumberTextError as exc:
+        layer.errors[key] = str(exc)
         return None
-    if value != value or value in (float("inf"), float("-inf")):
-        layer.errors[key] = "must be a finite number"
-        return None
-    if positive and value <= 0:
-        layer.errors[key] = "must be greater than zero"
-        return None
-    if not positive and value < 0:
-        layer.errors[key] = "must be zero or more"
-        return None
-    return value
 
 
 def _parse_length(
@@ -167,7 +160,7 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
         kind = layer.get("type")
         out: dict[str, Any] = {"name": layer.get("name")[:120]}
         if layer.get("vapour_sd"):
-            sd = _parse_number(layer, "vapour_sd", positive=False)
+            sd = _parse_number(layer, "vapour_sd", units, positive=False)
             if sd is not None:
                 out["vapour_sd_m"] = sd
         if kind == "framed":
@@ -176,7 +169,7 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
                 out["thickness"] = thickness
             cav_type = layer.get("cavity_type") or "r"
             if cav_type == "batt":
-                r_nom = _parse_number(layer, "batt_r")
+                r_nom = _parse_number(layer, "batt_r", units)
                 t_nom = _parse_length(layer, "batt_thickness", units)
                 cavity: dict[str, Any] = {"batt": {"r_nominal": r_nom, "thickness_nominal": t_nom}}
             elif cav_type == "material":
@@ -184,16 +177,16 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
                 if not cavity["material"]:
                     layer.errors["cavity_material"] = "choose a material"
             elif cav_type == "conductivity":
-                cavity = {"conductivity": _parse_number(layer, "cavity_conductivity")}
+                cavity = {"conductivity": _parse_number(layer, "cavity_conductivity", units)}
             else:
-                cavity = {"r": _parse_number(layer, "cavity_r")}
+                cavity = {"r": _parse_number(layer, "cavity_r", units)}
             framing: dict[str, Any] = {}
             if layer.get("lumber"):
                 framing["lumber"] = layer.get("lumber")
             if layer.get("spacing"):
                 framing["spacing"] = _parse_length(layer, "spacing", units)
             if layer.get("fraction"):
-                pct = _parse_number(layer, "fraction", positive=False)
+                pct = _parse_number(layer, "fraction", units, positive=False)
                 if pct is not None:
                     if pct >= 100:
                         layer.errors["fraction"] = "must be less than 100 %"
@@ -201,7 +194,7 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
             elif not (layer.get("lumber") and layer.get("spacing")):
                 layer.errors["fraction"] = "give the framing share (e.g. 25) or lumber and spacing"
             if layer.get("framing_conductivity"):
-                framing["conductivity"] = _parse_number(layer, "framing_conductivity")
+                framing["conductivity"] = _parse_number(layer, "framing_conductivity", units)
             out["cavity"], out["framing"] = cavity, framing
         elif kind == "material":
             out["material"] = layer.get("material") or None
@@ -212,9 +205,9 @@ def document_from_form(form: AssemblyForm, units: Units) -> dict[str, Any] | Non
                 out["thickness"] = thickness
         elif kind == "conductivity":
             out["thickness"] = _parse_length(layer, "thickness", units)
-            out["conductivity"] = _parse_number(layer, "conductivity")
+            out["conductivity"] = _parse_number(layer, "conductivity", units)
         else:
-            out["r"] = _parse_number(layer, "r", positive=False)
+            out["r"] = _parse_number(layer, "r", units, positive=False)
             thickness = _parse_length(layer, "thickness", units, required=False)
             if thickness is not None:
                 out["thickness"] = thickness

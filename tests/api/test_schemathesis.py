@@ -48,6 +48,8 @@ EXPECTED_OPERATIONS = {
     "POST /api/v1/calc/pipe",
     "POST /api/v1/calc/degree-days",
     "POST /api/v1/calc/house",
+    "POST /api/v1/calc/bills",
+    "POST /api/v1/calc/ground",
     "GET /api/v1/houses/{house_id}/document",
     "POST /api/v1/houses",
 }
@@ -170,6 +172,29 @@ HOUSE_IP = {  # ../shared/API.md, POST /api/v1/calc/house (its layers filled in)
         "loan": {"apr": 0.06, "years": 10},
     },
 }
+GROUND_SI = {  # ../shared/API.md, POST /api/v1/calc/ground
+    "units": "si",
+    "type": "heated_basement",
+    "floor_area": 120.0,
+    "exposed_perimeter": 46.0,
+    "wall_thickness": 300,
+    "soil_conductivity": 2.0,
+    "floor_r": 0.5,
+    "depth": 2.0,
+    "wall_r": 0.2,
+}
+BILLS_IP = {  # ../shared/API.md, POST /api/v1/calc/bills (three months of reads)
+    "units": "ip",
+    "fuel": "natural_gas",
+    "periods": [
+        {"start": "2025-01-01", "end": "2025-01-31", "use": 150.0},
+        {"start": "2025-01-31", "end": "2025-03-02", "use": 120.0, "estimated": True},
+        {"start": "2025-03-02", "end": "2025-04-01", "use": 60.0},
+    ],
+    "daily_temperatures": {"start": "2025-01-01", "values": [30.0] * 30 + [38.0] * 30 + [50.0] * 30},
+    "normal_temperatures": {"values": [50.0] * 365},
+    "efficiency": 0.8,
+}
 DAILY_CSV = b"date,temperature\n2023-01-01,30\n2023-01-02,40\n2023-01-03,70\n"
 
 GOOD = [
@@ -179,6 +204,9 @@ GOOD = [
     ("/api/v1/calc/pipe", PIPE_SI, "application/json"),
     ("/api/v1/calc/pipe", {**PIPE_SI, "surface_coefficient": 9.0}, "application/json"),
     ("/api/v1/calc/house", HOUSE_IP, "application/json"),
+    ("/api/v1/calc/bills", BILLS_IP, "application/json"),
+    ("/api/v1/calc/ground", GROUND_SI, "application/json"),
+    ("/api/v1/calc/ground", {**GROUND_SI, "type": "slab"}, "application/json"),
     ("/api/v1/calc/degree-days", {"file": DAILY_CSV, "units": "ip"}, "multipart/form-data"),
     ("/api/v1/calc/degree-days", {"file": DAILY_CSV, "units": "si", "heating_base": "18"},
      "multipart/form-data"),

@@ -15,7 +15,7 @@ from server.db import session_scope
 from server.models import LoginAttempt, User
 from server.security import ANON_CSRF_COOKIE, CSRF_HEADER, SESSION_COOKIE
 from server.services import accounts
-from tests.conftest import TEST_PASSWORD, Account
+from tests.conftest import TEST_PASSWORD, Account, sign_in
 from tests.security.conftest import SQLITE_ONLY
 
 pytestmark = pytest.mark.usefixtures("fast_hashing")
@@ -154,12 +154,18 @@ def test_sign_out_ends_the_cookie_and_everywhere_ends_every_session(app, client:
     r = client.post("/logout", follow_redirects=False)
     assert r.status_code == 303 and r.headers["location"] == "/login"
     assert "Max-Age=0" in _session_cookie_header(r)
-    # plain sign-out: this device's cookie is gone; "everywhere" also kills copies of it
-    client.cookies.set(SESSION_COOKIE, old_cookie, domain="testserver.local")  # type: ignore[arg-type]
-    assert client.get("/houses").status_code == 200
-    r = client.post("/logout", data={"everywhere": "1"}, follow_redirects=False)
+    # plain sign-out ends this session on the server: a kept copy of the cookie is refused
     client.cookies.set(SESSION_COOKIE, old_cookie, domain="testserver.local")  # type: ignore[arg-type]
     assert client.get("/houses", follow_redirects=False).status_code == 303
+    # "everywhere" ends every session of the user, this one and every other device's
+    with TestClient(app) as other_device:
+        sign_in(other_device, app, firm_a)
+        assert other_device.get("/houses").status_code == 200
+        r = other_device.post("/logout", data={"everywhere": "1"}, follow_redirects=False)
+        assert r.status_code == 303
+    with TestClient(app) as third_device:
+        sign_in(third_device, app, firm_a)  # a cookie of the old session version
+        assert third_device.get("/houses", follow_redirects=False).status_code == 303
 
 
 def test_email_rate_limit_then_success_after_the_window(app, anon_client: TestClient, firm_a: Account,
@@ -200,11 +206,60 @@ def test_a_success_resets_the_email_count(anon_client: TestClient, firm_a: Accou
 
 
 def test_client_address_rate_limit(anon_client: TestClient, firm_a: Account) -> None:
-    # 30 failures from one address, each for a different e-mail (never hits the e-mail limit)
-    for i in range(accounts.CLIENT_FAILURE_LIMIT):
+    # one failure each for as many different e-mails as the limit allows (never hits the
+    # e-mail limit): the address is spraying accounts
+    for i in range(accounts.CLIENT_ACCOUNT_LIMIT):
         assert _login(anon_client, f"guess{i}@firm-a.invalid", "x" * 12).status_code == 401
     r = _login(anon_client, firm_a.email, TEST_PASSWORD)
     assert r.status_code == 429 and 0 < int(r.headers["Retry-After"]) <= 900
+
+
+def test_one_users_typos_do_not_lock_out_the_office(app, anon_client: TestClient, firm_a: Account,
+                                                    staff_a: Account) -> None:  # type: ignore[no-untyped-def]  # fmt: skip
+    # One person behind the office's one address fails 32 times in a few minutes (4 wrong
+    # passwords, then the right one, 8 times over: the per-account limit of 5 never trips).
+    for _ in range(8):
+        for _ in range(4):
+            assert _login(anon_client, staff_a.email, "not-the-password").status_code == 401
+        assert _login(anon_client, staff_a.email, TEST_PASSWORD).status_code == 303
+        anon_client.cookies.clear()
+    with session_scope(app.state.session_factory) as s:
+        failed = s.scalars(select(LoginAttempt).where(LoginAttempt.succeeded.is_(False))).all()
+        assert len(failed) == 32 and {row.client for row in failed} == {"testclient"}
+    # a colleague at the same address signs in (before: 429 for 15 minutes, the whole office)
+    assert _login(anon_client, firm_a.email, TEST_PASSWORD).status_code == 303
+    # and the typist's own account is still limited after 5 failures in a row
+    anon_client.cookies.clear()
+    for _ in range(accounts.EMAIL_FAILURE_LIMIT):
+        assert _login(anon_client, staff_a.email, "not-the-password").status_code == 401
+    assert _login(anon_client, staff_a.email, TEST_PASSWORD).status_code == 429
+    assert _login(anon_client, firm_a.email, TEST_PASSWORD).status_code == 303
+
+
+def test_an_address_spraying_many_accounts_is_limited(app, anon_client: TestClient,
+                                                      firm_a: Account) -> None:  # type: ignore[no-untyped-def]  # fmt: skip
+    start = security.clock()
+    limit = accounts.CLIENT_ACCOUNT_LIMIT
+    # one fewer account than the limit, each tried up to its own limit: not yet limited
+    for i in range(limit - 1):
+        for _ in range(accounts.EMAIL_FAILURE_LIMIT):
+            assert _login(anon_client, f"person{i}@firm-a.invalid", "x" * 12).status_code == 401
+    assert _login(anon_client, firm_a.email, TEST_PASSWORD).status_code == 303
+    anon_client.cookies.clear()
+    # the limit-th different account: every account is refused from this address, even with
+    # the right password, until the window has passed
+    assert _login(anon_client, "person-last@firm-a.invalid", "x" * 12).status_code == 401
+    r = _login(anon_client, firm_a.email, TEST_PASSWORD)
+    assert r.status_code == 429 and "Too many tries" in r.text
+    assert 0 < int(r.headers["Retry-After"]) <= accounts.WINDOW_SECONDS
+    # the same account from another address is not affected
+    with TestClient(app, client=("198.51.100.20", 50000)) as elsewhere:
+        assert _login(elsewhere, firm_a.email, TEST_PASSWORD).status_code == 303
+    # once the oldest account's last failure has left the window, the address may try again
+    wait = int(r.headers["Retry-After"])
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setattr(security, "clock", lambda: start + wait + 2)
+        assert _login(anon_client, firm_a.email, TEST_PASSWORD).status_code == 303
 
 
 def test_password_reset_by_admin_kills_old_sessions(app, client: TestClient, staff_client: TestClient,

@@ -10,7 +10,8 @@ from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from server.physics import units
-from server.physics.units import INCH_M, format_inches, from_si, parse_length, to_si
+from server.physics.units import INCH_M, format_inches, from_si, to_si
+from server.services.number_text import read_length
 
 u = pint.UnitRegistry()
 Q = u.Quantity
@@ -130,7 +131,7 @@ def test_ip_si_round_trip_identity(value: float, quantity: str) -> None:
 def test_format_then_parse_within_a_rounding_step(inches: float) -> None:
     # format_inches rounds to the nearest 1/8 in by default, so its text is within half a step
     # (1/16 in) of the length
-    coarse = parse_length(format_inches(inches * INCH_M)) / INCH_M
+    coarse = read_length(format_inches(inches * INCH_M)) / INCH_M
     assert abs(coarse - inches) <= 1 / 16 + 1e-9
 
 
@@ -139,7 +140,7 @@ def test_format_then_parse_within_a_rounding_step(inches: float) -> None:
 @example(inches=0.6875)  # 11/16 in
 def test_format_sixteenths_then_parse_within_1_32_in(inches: float) -> None:
     # denominator 16 -> nearest 1/16 in -> within 1/32 in of the length
-    fine = parse_length(format_inches(inches * INCH_M, 16)) / INCH_M
+    fine = read_length(format_inches(inches * INCH_M, 16)) / INCH_M
     assert abs(fine - inches) <= 1 / 32 + 1e-9
 
 
@@ -175,24 +176,24 @@ def test_format_inches_hand_cases() -> None:
     ],
 )
 def test_parse_length_trade_forms(text: str, inches: float) -> None:
-    assert parse_length(text) / INCH_M == pytest.approx(inches, rel=1e-12)
+    assert read_length(text) / INCH_M == pytest.approx(inches, rel=1e-12)
 
 
 @pytest.mark.parametrize(("text", "inches"), [("11/16", 0.6875), ('15/16"', 0.9375)])
 def test_parse_length_two_digit_numerator(text: str, inches: float) -> None:
     # 11/16 = 0.6875; 15/16 = 0.9375 (common trade fractions of an inch; once read as 1 + 1/16)
-    assert parse_length(text) / INCH_M == pytest.approx(inches, rel=1e-12)
+    assert read_length(text) / INCH_M == pytest.approx(inches, rel=1e-12)
 
 
 def test_parse_length_default_unit_mm() -> None:
     # si entry: a bare number is millimetres (89 -> 0.089 m)
-    assert parse_length("89", default_unit="mm") == pytest.approx(0.089, rel=1e-12)
+    assert read_length("89", default_unit="mm") == pytest.approx(0.089, rel=1e-12)
 
 
 @pytest.mark.parametrize("text", ["", "   ", "abc", "0", "-3", "3/0", "1/2/3", "3 furlongs"])
 def test_parse_length_bad_text_plain_message(text: str) -> None:
     with pytest.raises(ValueError) as info:
-        parse_length(text)
+        read_length(text)
     message = str(info.value)
     # a plain sentence for a person: no traceback words, no Python type names
     assert message and "Error" not in message and "Fraction" not in message
@@ -202,20 +203,20 @@ def test_parse_length_bad_text_plain_message(text: str) -> None:
 def test_parse_length_absurdly_long_number_is_a_value_error() -> None:
     # 400 digits once escaped as OverflowError from float(Fraction); it must be a ValueError
     with pytest.raises(ValueError):
-        parse_length("1" * 400)
+        read_length("1" * 400)
 
 
 def test_parse_length_absurd_feet_is_a_value_error() -> None:
     with pytest.raises(ValueError):
-        parse_length("1" * 400 + "' 6\"")
+        read_length("1" * 400 + "' 6\"")
 
 
 def test_parse_length_feet_and_zero_inches() -> None:
     # 5' 0" = 5 x 12 + 0 = 60 in
-    assert parse_length("5' 0\"") / INCH_M == pytest.approx(60.0, rel=1e-12)
+    assert read_length("5' 0\"") / INCH_M == pytest.approx(60.0, rel=1e-12)
 
 
 def test_parse_length_tiny_positive_is_accepted() -> None:
     # 1/64 in is a real (if small) length: 0.015625 in
-    assert parse_length("1/64") / INCH_M == pytest.approx(1 / 64, rel=1e-12)
-    assert math.isfinite(parse_length("1/64"))
+    assert read_length("1/64") / INCH_M == pytest.approx(1 / 64, rel=1e-12)
+    assert math.isfinite(read_length("1/64"))

@@ -394,3 +394,66 @@ def test_chronological_gap_over_new_year_is_a_gap_not_a_typical_year():
     series = parse_weather_file(csv_bytes("date,temp_c", [f"{d},1" for d in days]))
     assert not any("mixes years" in w for w in series.warnings)
     assert warning_with(series, "missing in").startswith("41 days are missing in 1 gap")
+
+
+# --- bounded reading -----------------------------------------------------------------------
+
+
+def _hourly_csv(count: int) -> bytes:
+    # One row per hour from 1900 on: "1900-01-01 00:00:00,5.0\n" is 24 bytes.
+    return csv_bytes("timestamp,temp_c", hourly_rows(count, start=datetime(1900, 1, 1)))
+
+
+def test_a_file_longer_than_a_weather_year_is_refused_after_a_bounded_read():
+    # 100,000 hourly rows (11 years). The bound is a leap year (366 x 24 = 8,784 rows) plus
+    # 64 lines of margin = 8,848 lines; the read stops at line 8,849, i.e. after about
+    # 8,849 x 24 bytes = 212 kB of the 2.4 MB file (plus at most two 8 kB read-ahead chunks).
+    data = _hourly_csv(100_000)
+    stream = io.BytesIO(data)
+    with pytest.raises(InputError) as caught:
+        parse_weather_file(stream)
+    assert caught.value.field == "file"
+    assert "more than 8,848 lines" in caught.value.message
+    assert "8,784 hourly rows" in caught.value.message
+    assert stream.tell() < 8_849 * 24 + 2 * 8192 < len(data) // 10
+    assert not stream.closed  # the caller's file is left open
+
+
+def test_a_leap_year_with_the_margin_is_still_read():
+    # 8,784 hours of 2020 plus a header and 63 repeated hours = 8,848 non-blank lines: the
+    # most allowed; the 63 repeats are counted as duplicates.
+    rows = hourly_rows(8784, start=datetime(2020, 1, 1))
+    series = parse_weather_file(csv_bytes("timestamp,temp_c", rows + rows[:63]))
+    assert len(series.temperatures_c) == 8784
+    assert warning_with(series, "duplicate").startswith("63 duplicate hours")
+
+
+def test_blank_lines_do_not_count_as_rows():
+    # Double-spaced rows ("\r\r\n" reads as two line ends): 8,760 rows and 8,760 blank lines.
+    rows = hourly_rows(8760)
+    series = parse_weather_file(("timestamp,temp_c\r\r\n" + "\r\r\n".join(rows)).encode())
+    assert len(series.temperatures_c) == 8760 and series.warnings == ()
+
+
+def test_a_20_mb_line_is_not_read_whole():
+    stream = io.BytesIO(b"timestamp,temp_c\n" + b"1" * (20 * 1024 * 1024))
+    with pytest.raises(InputError) as caught:
+        parse_weather_file(stream)
+    assert caught.value.message.startswith("line 2 is longer than 4,096 characters")
+    assert stream.tell() < 64 * 1024
+
+
+def test_latin1_bytes_and_old_mac_line_ends_are_read():
+    # A Latin-1 header ("°" is the single byte 0xB0) and lines ended by a lone CR.
+    # 50 °F = (50 - 32) x 5/9 = 10 °C.
+    rows = [f"2021-01-{d:02d},50" for d in range(1, 11)]
+    data = "\r".join(["Date,Mean Temp (°F)", *rows]).encode("latin-1")
+    series = parse_weather_file(data)
+    assert series.kind == "csv-daily" and series.temperatures_c == pytest.approx([10.0] * 10)
+    assert series.warnings[0].startswith("the file has 10 days")
+
+
+def test_utf16_file_with_its_byte_order_mark():
+    rows = [f"2021-01-{d:02d},4" for d in range(1, 4)]
+    series = parse_weather_file(csv_bytes("date,temp_c", rows).decode().encode("utf-16"))
+    assert series.temperatures_c == (4.0, 4.0, 4.0)

@@ -117,3 +117,18 @@ def test_code_target_beside_surfaces_once_zone_known(client: TestClient) -> None
     assert "Below the code target" in client.get(surface).text
     r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "9Z"}, headers=HX)
     assert "write the zone like 5 or 5A" in r.text and 'value="9Z"' in r.text
+
+
+def test_a_weather_file_longer_than_a_year_is_refused_on_the_house_page(
+    client: TestClient,
+) -> None:
+    # 20,000 hourly rows (2.3 years): past the 8,784-row leap year + 64-line margin the page's
+    # upload is refused, read by the same bounded reader as the JSON calculator.
+    house = _house(client)
+    rows = "".join(f"2021-01-01 00:00,{i % 10}\n" for i in range(20_000))
+    r = client.post(
+        f"{house}/weather",
+        files={"file": ("long.csv", ("timestamp,temp_c\n" + rows).encode())},
+        data={"version": _version(client, house)},
+    )
+    assert r.status_code == 422 and "more than 8,848 lines" in r.text

@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from typing import Annotated, Literal
+import io
+from typing import Annotated, BinaryIO, Literal
 
 from fastapi import APIRouter, File, Form, Query, UploadFile
 from starlette.concurrency import run_in_threadpool
@@ -14,8 +15,8 @@ from server.services.climate import compute_degree_days
 
 router = APIRouter(tags=["calculators"])
 
-#: Largest upload read [bytes]: a year of hourly EPW is ~1.5 MB, so 20 MB leaves room for
-#: several years or minute data (common practice).
+#: Largest upload taken [bytes]: a year of hourly EPW is ~1.5 MB (common practice); a file
+#: with more rows than a weather year is refused as soon as they are read, whatever its size.
 MAX_UPLOAD_BYTES = 20 * 1024 * 1024
 
 OptionalBase = Annotated[
@@ -51,11 +52,16 @@ async def calc_degree_days(
         str | None, Query(alias="temperature_unit", max_length=20)
     ] = None,
 ) -> DegreeDaysResult:
-    """Read the file and compute; the form fields win over the same-named query options."""
-    # A client that sends the file's text as a plain form field gets it read the same way.
-    too_big = not isinstance(file, str) and (file.size or 0) > MAX_UPLOAD_BYTES
-    data = b"" if too_big else await _read(file)
-    if too_big or len(data) > MAX_UPLOAD_BYTES:
+    """Read the file and compute; the form fields win over the same-named query options.
+
+    The upload is read from its spooled temporary file one bounded line at a time (in the
+    threadpool): a file longer than a weather year is refused before the rest is read.
+    """
+    # A client that sends the file's text as a plain form field gets it read the same way
+    # (Starlette bounds such a field at 1 MB).
+    data: BinaryIO = io.BytesIO(file.encode()) if isinstance(file, str) else file.file
+    size = None if isinstance(file, str) else file.size
+    if (size if size is not None else _stream_size(data)) > MAX_UPLOAD_BYTES:
         raise InputError(
             field="file",
             message=f"the file is larger than {MAX_UPLOAD_BYTES // (1024 * 1024)} MB; upload "
@@ -72,8 +78,9 @@ async def calc_degree_days(
     )
 
 
-async def _read(file: UploadFile | str) -> bytes:
-    """The upload's bytes, at most one byte past the limit (so the limit can be told)."""
-    if isinstance(file, str):
-        return file.encode()
-    return await file.read(MAX_UPLOAD_BYTES + 1)
+def _stream_size(stream: BinaryIO) -> int:
+    """Bytes from the stream's position to its end (the position is kept)."""
+    at = stream.tell()
+    end = stream.seek(0, io.SEEK_END)
+    stream.seek(at)
+    return end - at

@@ -107,6 +107,11 @@ def login(
 def logout(
     request: Request, session: SessionDep, user: CurrentUser, everywhere: str = Form("")
 ) -> Response:
+    # This session ends on the server (a copy of the cookie is refused too); the user's other
+    # devices stay signed in unless "everywhere" was asked for.
+    data = request.state.session_data
+    accounts.revoke_session(session=session, user=user, nonce=data.nonce,
+                            signed_in_at=data.signed_in_at)  # fmt: skip
     if everywhere:
         accounts.end_all_sessions(session=session, user=user)
     response = RedirectResponse("/login", status_code=303)

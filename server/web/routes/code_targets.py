@@ -8,6 +8,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.physics.code_targets import SURFACE_KINDS
 from server.services.firm_code_targets import own_keys, reset_row, rows_for, save_row
+from server.services.number_text import NumberTextError, read_integer
 from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.forms import parse_float
 
@@ -36,8 +37,8 @@ def code_targets_page(request: Request, session: SessionDep, org: OrgDep):  # ty
 def save_code_target(request: Request, session: SessionDep, org: OrgDep, data: PostedFields):  # type: ignore[no-untyped-def]
     errors: dict[str, str] = {}
     try:
-        zone = int(data.get("climate_zone", ""))
-    except ValueError:
+        zone = read_integer(data.get("climate_zone", ""))
+    except NumberTextError:
         zone = -1
     kind = data.get("surface_kind", "")
     if not 0 <= zone <= 8:

@@ -10,6 +10,7 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.services import houses as svc
 from server.services.climate import compute_degree_days
+from server.services.number_text import NumberTextError, read_decimal
 from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.forms import form_version
 from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
@@ -25,7 +26,8 @@ def settings_context(
     sections = []
     for key, (title, _model, fields) in SECTIONS.items():
         stored = getattr(house, COLUMNS[key]) or {}
-        values = typed if (key == section and typed is not None) else form_values(key, stored)
+        values = (typed if (key == section and typed is not None)
+                  else form_values(key, stored, house.units))  # fmt: skip
         sections.append({"key": key, "title": title, "fields": fields, "values": values,
                          "errors": (errors or {}) if key == section else {}})  # fmt: skip
     weather = (house.climate or {}).get("weather")
@@ -58,9 +60,12 @@ def save_section(
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if section not in SECTIONS:
         raise svc.NotFound
-    version = form_version(data)
     stored = getattr(house, COLUMNS[section]) or {}
-    doc, errors = parse_section(section, data)
+    doc, errors = parse_section(section, data, units=house.units)
+    try:
+        version, version_ok = form_version(data), True
+    except InputError as exc:
+        doc, errors, version, version_ok = None, {**errors, "form": exc.message}, None, False
     zone = data.get("climate_zone", "").strip().upper()
     if section == "climate" and zone and not re.fullmatch(r"[0-8][ABC]?", zone):
         errors = {**errors, "climate_zone": "write the zone like 5 or 5A (0 to 8, then A, B or C)"}
@@ -68,8 +73,14 @@ def save_section(
     if doc is not None and section == "climate":
         doc, errors = _with_balance_point(house, doc, data, errors)
     if doc is not None:
+        if section == "climate":
+            doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
+            if zone:
+                doc["climate_zone"] = zone
         try:
             svc.check_version(house, version)
+            setattr(house, COLUMNS[section], doc)
+            svc.touch(house)  # written now: Conflict when another save of the house came first
         except svc.Conflict:
             errors = {"form": "Someone else saved this house after you opened it: nothing was "
                               "saved. Your entries are kept; reload to see theirs."}  # fmt: skip
@@ -77,14 +88,7 @@ def save_section(
     if doc is None:
         ctx = settings_context(house, section=section, typed=data, errors=errors,
                                message="Not saved: check the marked fields.")  # fmt: skip
-        return _respond(request, session, org, house, ctx, 409 if "form" in errors else 422)
-    if section == "climate":
-        doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
-        if zone:
-            doc["climate_zone"] = zone
-    setattr(house, COLUMNS[section], doc)
-    svc.touch(house)
-    session.flush()
+        return _respond(request, session, org, house, ctx, 409 if "form" in errors and version_ok else 422)
     ctx = settings_context(house, section=section, message=f"{SECTIONS[section][0]} saved.")
     return _respond(request, session, org, house, ctx, 200)
 
@@ -99,11 +103,13 @@ def _with_balance_point(house, doc: dict, data: dict[str, str], errors: dict[str
         return None, {
             "setpoint": "load a weather file first: the balance-point method needs its table"
         }
+    decimal_comma = house.units == "si"
     try:
-        doc["variable_base"] = {"setpoint": float(setpoint), "internal_gains": float(gains),
-                                "table": [{"base": r["base"], "hdd": r["hdd"]} for r in table]}  # fmt: skip
-    except ValueError:
-        return None, {"setpoint": "give the set-point and the internal gains as numbers"}
+        numbers = [read_decimal(text, decimal_comma=decimal_comma) for text in (setpoint, gains)]
+    except NumberTextError as exc:
+        return None, {"setpoint": f"give the set-point and the internal gains as numbers ({exc})"}
+    doc["variable_base"] = {"setpoint": numbers[0], "internal_gains": numbers[1],
+                            "table": [{"base": r["base"], "hdd": r["hdd"]} for r in table]}  # fmt: skip
     from server.documents.house import ClimateIn
 
     try:
@@ -124,15 +130,16 @@ def upload_weather(
     """Read a weather file (EPW, TMY3 or CSV) into the house's climate (a sync route: the
     upload is already spooled by the time it runs, so ``file.file`` is read directly)."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    version = form_version({"version": str(form.get("version", ""))})
-    data = file.file.read(MAX_WEATHER_BYTES + 1)
     try:
-        if len(data) > MAX_WEATHER_BYTES:
+        version = form_version({"version": str(form.get("version", ""))})
+        if (file.size or 0) > MAX_WEATHER_BYTES:  # the reader bounds the rows read, too
             raise InputError(
                 "file", "the file is larger than 20 MB; a year of hourly data is about 2 MB"
             )
         svc.check_version(house, version)
-        result = compute_degree_days(data, units=house.units, heating_base=None, cooling_base=None)
+        result = compute_degree_days(  # read line by line from the spooled file, bounded
+            file.file, units=house.units, heating_base=None, cooling_base=None
+        )
     except InputError as exc:
         ctx = settings_context(house, section="climate", errors={"file": exc.message},
                                message="The weather file was not used.")  # fmt: skip
@@ -163,8 +170,12 @@ def upload_weather(
         },
     }
     house.climate = climate
-    svc.touch(house)
-    session.flush()
+    try:
+        svc.touch(house)  # written now: Conflict when another save of the house came first
+    except svc.Conflict:
+        ctx = settings_context(house, section="climate",
+                               errors={"form": "Someone else saved this house; reload first."})  # fmt: skip
+        return _respond(request, session, org, house, ctx, 409)
     name = result.station or file.filename or "the file"
     ctx = settings_context(house, section="climate", message=f"Climate read from {name}: "
                            f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip

@@ -7,10 +7,11 @@ from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
 from server.services import houses as svc
+from server.services import idempotency as idem
 from server.services.library import catalog_for
 from server.services.typical import typical_assemblies
-from server.web.deps import OrgDep, SessionDep, render
-from server.web.forms import parse_float
+from server.web.deps import CurrentUser, OrgDep, SessionDep, render
+from server.web.forms import form_version, parse_float
 
 router = APIRouter()
 
@@ -34,11 +35,13 @@ def create_house(  # type: ignore[no-untyped-def]
     request: Request,
     session: SessionDep,
     org: OrgDep,
+    user: CurrentUser,
     label: str = Form(""),
     address: str = Form(""),
     units: str = Form("ip"),
+    idempotency_key: str = Form(""),
 ):
-    try:
+    def work() -> str:
         house = svc.create_house(
             session=session,
             organization_id=org.id,
@@ -46,6 +49,11 @@ def create_house(  # type: ignore[no-untyped-def]
             address=address,
             units=units,  # type: ignore[arg-type]
         )
+        return f"/houses/{house.id}"
+
+    try:  # the same form posted again answers with the house it made the first time
+        location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                key=idem.read_key(idempotency_key), purpose="house", work=work)  # fmt: skip
     except InputError as exc:
         rows = svc.list_houses(session=session, organization_id=org.id)
         form = {"label": label, "address": address, "units": units}
@@ -53,7 +61,7 @@ def create_house(  # type: ignore[no-untyped-def]
             request, "pages/houses.html",
             {"rows": rows, "q": "", "form": form, "errors": {exc.field: exc.message}}, status_code=422,
         )  # fmt: skip
-    return RedirectResponse(f"/houses/{house.id}", status_code=303)
+    return RedirectResponse(location, status_code=303)
 
 
 def _house_context(session, org, house_id: int) -> dict:  # type: ignore[no-untyped-def]
@@ -91,23 +99,31 @@ def add_surface(  # type: ignore[no-untyped-def]
     request: Request,
     session: SessionDep,
     org: OrgDep,
+    user: CurrentUser,
     house_id: int,
     name: str = Form(""),
     kind: str = Form(""),
     area: str = Form(""),
     typical: str = Form(""),
-    version: int | None = Form(None),
+    version: str = Form(""),
+    idempotency_key: str = Form(""),
 ):
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
-    area_value = parse_float(area, "area", errors)
+    area_value = parse_float(area, "area", errors, units=house.units)
     if not errors:
-        try:
+
+        def work() -> str:
             surface = svc.add_surface(
                 session=session, house=house, name=name, kind=kind, area=area_value or 0.0,
-                typical=typical or None, expected_version=version,
+                typical=typical or None, expected_version=form_version({"version": version}),
             )  # fmt: skip
-            return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
+            return f"/houses/{house.id}/surfaces/{surface.id}"
+
+        try:  # the same form posted again answers with the surface it added the first time
+            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                    key=idem.read_key(idempotency_key), purpose="surface", work=work)  # fmt: skip
+            return RedirectResponse(location, status_code=303)
         except InputError as exc:
             errors[exc.field] = exc.message
         except svc.Conflict:
@@ -125,6 +141,7 @@ def add_surface(  # type: ignore[no-untyped-def]
 
 @router.post("/houses/{house_id}/units")
 def switch_units(  # type: ignore[no-untyped-def]
+    request: Request,
     session: SessionDep,
     org: OrgDep,
     house_id: int,
@@ -132,6 +149,12 @@ def switch_units(  # type: ignore[no-untyped-def]
     version: int | None = Form(None),
 ):
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    if units in ("ip", "si") and units != house.units:
-        svc.switch_units(session=session, house=house, units=units, expected_version=version)  # type: ignore[arg-type]
+    if units in ("ip", "si"):
+        try:  # a stale tab is a conflict even when it asks for the units shown now
+            svc.switch_units(session=session, house=house, units=units, expected_version=version)  # type: ignore[arg-type]
+        except svc.Conflict:
+            context = _house_context(session, org, house_id)
+            context["errors"] = {"units": "Someone else changed this house since you opened it, "
+                                 "so the units were not switched. Here it is as saved now."}  # fmt: skip
+            return render(request, "pages/house.html", context, status_code=409)
     return RedirectResponse(f"/houses/{house.id}", status_code=303)

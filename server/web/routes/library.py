@@ -33,7 +33,7 @@ def add_library_material(  # type: ignore[no-untyped-def]
     source: str = Form(""),
 ):
     errors: dict[str, str] = {}
-    number = parse_float(value, "value", errors)
+    number = parse_float(value, "value", errors, units=units)
     if not errors:
         si = units == "si"
         k = r = None

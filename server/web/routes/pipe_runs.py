@@ -7,8 +7,9 @@ from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
 from server.services import houses as svc
+from server.services import idempotency as idem
 from server.services import upgrades as upg
-from server.web.deps import OrgDep, PostedFields, SessionDep, render
+from server.web.deps import CurrentUser, OrgDep, PostedFields, SessionDep, render
 from server.web.forms import form_version, parse_float, parse_length_field
 
 router = APIRouter()
@@ -17,13 +18,13 @@ router = APIRouter()
 def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, str]]:
     errors: dict[str, str] = {}
     values = {
-        "length": parse_float(data.get("length", ""), "length", errors),
-        "hours_per_year": parse_float(data.get("hours_per_year", ""), "hours_per_year", errors),
+        "length": parse_float(data.get("length", ""), "length", errors, units=units),
+        "hours_per_year": parse_float(data.get("hours_per_year", ""), "hours_per_year", errors, units=units),
         "pipe_outer_diameter": parse_length_field(data.get("pipe_outer_diameter", ""), units, "pipe_outer_diameter", errors),
-        "fluid_temperature": parse_float(data.get("fluid_temperature", ""), "fluid_temperature", errors, positive=False),
-        "ambient_temperature": parse_float(data.get("ambient_temperature", ""), "ambient_temperature", errors, positive=False),
+        "fluid_temperature": parse_float(data.get("fluid_temperature", ""), "fluid_temperature", errors, positive=False, units=units),
+        "ambient_temperature": parse_float(data.get("ambient_temperature", ""), "ambient_temperature", errors, positive=False, units=units),
         "thickness": parse_length_field(data.get("thickness", ""), units, "thickness", errors, required=False),
-        "conductivity": parse_float(data["conductivity"], "conductivity", errors) if data.get("conductivity", "").strip() else None,
+        "conductivity": parse_float(data["conductivity"], "conductivity", errors, units=units) if data.get("conductivity", "").strip() else None,
     }  # fmt: skip
     if (values["thickness"] is None) != (values["conductivity"] is None) and not errors:
         errors["conductivity" if values["conductivity"] is None else "thickness"] = (
@@ -34,8 +35,9 @@ def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, s
 
 @router.post("/houses/{house_id}/pipes")
 def add_pipe_run(
-    request: Request, session: SessionDep, org: OrgDep, data: PostedFields, house_id: int
-):  # type: ignore[no-untyped-def]
+    request: Request, session: SessionDep, org: OrgDep, user: CurrentUser, data: PostedFields,
+    house_id: int,
+):  # type: ignore[no-untyped-def]  # fmt: skip
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     values, errors = parse_pipe_form(data, house.units)
     if not errors:
@@ -46,11 +48,17 @@ def add_pipe_run(
         )
         pipe = {"pipe_outer_diameter": values["pipe_outer_diameter"], "layers": layers,
                 "fluid_temperature": values["fluid_temperature"], "ambient_temperature": values["ambient_temperature"]}  # fmt: skip
-        try:
+
+        def work() -> str:
             surface = svc.add_pipe_run(session=session, house=house, name=data.get("name", ""), length=values["length"],
                                        pipe=pipe, hours_per_year=values["hours_per_year"],
                                        expected_version=form_version(data))  # fmt: skip
-            return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
+            return f"/houses/{house.id}/surfaces/{surface.id}"
+
+        try:  # the same form posted again answers with the pipe run it added the first time
+            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                    key=idem.read_key(data), purpose="pipe_run", work=work)  # fmt: skip
+            return RedirectResponse(location, status_code=303)
         except InputError as exc:
             errors[exc.field.split(".")[-1]] = exc.message
         except svc.Conflict:
@@ -59,7 +67,7 @@ def add_pipe_run(
 
     ctx = _house_context(session, org, house.id)
     ctx["pipe_errors"], ctx["pipe_form"] = errors, data
-    return render(request, "pages/house.html", ctx, status_code=422)
+    return render(request, "pages/house.html", ctx, status_code=409 if "form" in errors else 422)
 
 
 @router.post("/houses/{house_id}/pipes/{surface_id}/insulate")
@@ -67,6 +75,7 @@ def insulate_pipe(
     request: Request,
     session: SessionDep,
     org: OrgDep,
+    user: CurrentUser,
     data: PostedFields,
     house_id: int,
     surface_id: int,
@@ -77,13 +86,19 @@ def insulate_pipe(
     )
     errors: dict[str, str] = {}
     thickness = parse_length_field(data.get("thickness", ""), house.units, "thickness", errors)
-    conductivity = parse_float(data.get("conductivity", ""), "conductivity", errors)
+    conductivity = parse_float(data.get("conductivity", ""), "conductivity", errors, units=house.units)
     if not errors:
-        try:
+
+        def work() -> str:
             upgrade = upg.add_pipe_insulation(session=session, house=house, surface=surface, name=data.get("name", ""),
                                               thickness=thickness or 0.0, conductivity=conductivity or 0.0,
                                               expected_version=form_version(data))  # fmt: skip
-            return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
+            return f"/houses/{house.id}/upgrades/{upgrade.id}"
+
+        try:  # the same form posted again answers with the upgrade it made the first time
+            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                    key=idem.read_key(data), purpose="pipe_insulation", work=work)  # fmt: skip
+            return RedirectResponse(location, status_code=303)
         except InputError as exc:
             errors[exc.field] = exc.message
         except svc.Conflict:
@@ -92,4 +107,4 @@ def insulate_pipe(
 
     ctx = pipe_run_context(session, org, house, surface)
     ctx["insulate_errors"], ctx["insulate_form"] = errors, data
-    return render(request, "pages/pipe_run.html", ctx, status_code=422)
+    return render(request, "pages/pipe_run.html", ctx, status_code=409 if "form" in errors else 422)

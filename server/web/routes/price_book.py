@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 from typing import Any
 
 from fastapi import APIRouter, Form, Request
@@ -11,26 +10,25 @@ from fastapi.responses import RedirectResponse
 from server.errors import InputError
 from server.services import houses as svc
 from server.services import price_book as book
+from server.services.number_text import NumberTextError, read_decimal
 from server.web.deps import OrgDep, SessionDep, render
+from server.web.forms import form_version
 
 router = APIRouter()
 FIELDS = ("name", "upgrade_type", "basis", "units", "unit_cost", "fixed_cost", "notes")
 
 
-def _money(text: str, field: str, errors: dict[str, str]) -> float:
-    """A cost typed in a form: blank is 0; '$1,250.50' is 1250.5."""
-    cleaned = (text or "").replace(",", "").replace("$", "").strip()
+def _money(text: str, field: str, errors: dict[str, str], units: str = "ip") -> float:
+    """A cost typed in a form: blank is 0; '$1,250.50' is 1250.5 (a decimal comma, '12,50',
+    only on a metric item)."""
+    cleaned = (text or "").replace("$", "").strip()
     if not cleaned:
         return 0.0
     try:
-        value = float(cleaned)
-    except ValueError:
-        errors[field] = f"'{text}' is not a number"
+        return read_decimal(cleaned, decimal_comma=units == "si")
+    except NumberTextError as exc:
+        errors[field] = str(exc)
         return 0.0
-    if not math.isfinite(value):
-        errors[field] = "must be a finite number"
-        return 0.0
-    return value
 
 
 def _errors(exc: InputError) -> dict[str, str]:
@@ -40,8 +38,8 @@ def _errors(exc: InputError) -> dict[str, str]:
 def _values(form: dict[str, str], errors: dict[str, str]) -> dict[str, Any]:
     return {
         "name": form["name"], "upgrade_type": form["upgrade_type"], "basis": form["basis"],
-        "units": form["units"], "unit_cost": _money(form["unit_cost"], "unit_cost", errors),
-        "fixed_cost": _money(form["fixed_cost"], "fixed_cost", errors), "notes": form["notes"],
+        "units": form["units"], "unit_cost": _money(form["unit_cost"], "unit_cost", errors, form["units"]),
+        "fixed_cost": _money(form["fixed_cost"], "fixed_cost", errors, form["units"]), "notes": form["notes"],
     }  # fmt: skip
 
 
@@ -151,7 +149,7 @@ def fill_from_price_book(  # type: ignore[no-untyped-def]
         raise svc.NotFound
     target = back if back.startswith(f"/houses/{house.id}/") else f"/houses/{house.id}"
     try:
-        svc.check_version(house, int(version) if version.isdigit() else None)
+        svc.check_version(house, form_version({"version": version}))
         if price_item:
             items = {i.slug: i for i in book.list_items(session=session, organization_id=org.id)}
             if price_item not in items:
@@ -159,6 +157,8 @@ def fill_from_price_book(  # type: ignore[no-untyped-def]
             document = book.apply_price_item(upgrade.document, items[price_item], units=house.units)
         else:
             document = {k: v for k, v in upgrade.document.items() if k != "price_item"}
+        upgrade.document = document
+        svc.touch(house)  # written now: Conflict when another save of the house came first
     except (InputError, svc.Conflict) as exc:
         message = (
             "Someone else changed this house since you opened it: nothing was saved. Reload "
@@ -174,8 +174,6 @@ def fill_from_price_book(  # type: ignore[no-untyped-def]
                                   fill_error={"upgrade": upgrade.slug, "message": message},
                                   status_code=409 if isinstance(exc, svc.Conflict) else 422)  # fmt: skip
         ctx = page_context(session, org, message=f"Cost not filled for '{upgrade.name}': {message}")
-        return render(request, "pages/price_book.html", ctx, status_code=422)
-    upgrade.document = document
-    svc.touch(house)
-    session.flush()
+        status = 409 if isinstance(exc, svc.Conflict) else 422
+        return render(request, "pages/price_book.html", ctx, status_code=status)
     return RedirectResponse(target, status_code=303)

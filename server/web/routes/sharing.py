@@ -18,8 +18,10 @@ from sqlalchemy.orm import Session
 from server.errors import InputError
 from server.models import House, Organization, ShareLink, utcnow
 from server.services import houses as svc
+from server.services import idempotency as idem
 from server.services import sharing
 from server.services.library import catalog_for
+from server.services.number_text import NumberTextError, read_integer
 from server.web.deps import CurrentUser, OrgDep, SessionDep, render
 from server.web.routes.compare import compare_context
 
@@ -103,26 +105,42 @@ def create_share_link(  # type: ignore[no-untyped-def]
     house_id: int,
     label: str = Form(""),
     days_valid: str = Form(str(sharing.DEFAULT_DAYS)),
+    idempotency_key: str = Form(""),
 ):
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     form = {"label": label, "days_valid": days_valid}
     errors: dict[str, str] = {}
-    days = int(days_valid) if days_valid.strip().isdigit() else None
+    made: dict[str, str] = {}
+    repeated = False
+    try:
+        days: int | None = read_integer(days_valid)
+    except NumberTextError:
+        days = None
     if days is None:
         errors["days_valid"] = f"give a whole number of days, 1 to {sharing.MAX_DAYS}"
     else:
-        try:
-            _link, token = sharing.create_link(
+
+        def work() -> str:
+            _link, made["token"] = sharing.create_link(
                 session=session, organization_id=org.id, house_id=house.id, label=label,
                 days_valid=days, created_by_id=user.id,
             )  # fmt: skip
+            return f"/houses/{house.id}/share-links#share-links"
+
+        try:  # the same form posted again (a resubmit after a lost answer) makes no second link
+            _location, repeated = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                            key=idem.read_key(idempotency_key), purpose="share_link", work=work)  # fmt: skip
         except InputError as exc:
             errors[exc.field] = exc.message
     if errors:
         ctx = share_context(session=session, organization_id=org.id, house=house, form=form,
                             errors=errors)  # fmt: skip
         return _respond(request, session, org, house, ctx, status=422)
-    url = str(request.url_for("shared_view", token=token))
+    if repeated:  # only the token's hash is stored, so the first answer's link cannot be shown
+        ctx = share_context(session=session, organization_id=org.id, house=house)
+        ctx["share"]["repeated"] = True
+        return _respond(request, session, org, house, ctx)
+    url = str(request.url_for("shared_view", token=made["token"]))
     new = {"url": url, "qr": qr_svg(url), "label": label.strip(), "days": days}
     ctx = share_context(session=session, organization_id=org.id, house=house, new=new)
     response = _respond(request, session, org, house, ctx)

@@ -136,6 +136,7 @@ def save_assembly(
     # htmx swaps 200 responses only by default: return 200 with the messages in the fragment.
     code = 200 if request.headers.get("HX-Request") else status
     ctx = _context(session, org, house, surface, form, result, message, catalog=catalog)
+    ctx["saved"] = status == 200  # the fragment then says which house version it stored
     return render(request, template, ctx, status_code=code)
 
 
@@ -149,12 +150,21 @@ def update_surface(
     surface_id: int,
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
-    version = form_version(data)
-    if data.get("action") == "delete":
-        svc.delete_surface(session=session, house=house, surface=surface, expected_version=version)
-        return RedirectResponse(f"/houses/{house.id}", status_code=303)
     errors: dict[str, str] = {}
-    area = parse_float(data.get("area", ""), "area", errors)
+    try:
+        version = form_version(data)
+    except InputError as exc:
+        version, errors[exc.field] = None, exc.message
+    if data.get("action") == "delete" and not errors:
+        try:
+            svc.delete_surface(
+                session=session, house=house, surface=surface, expected_version=version
+            )
+            return RedirectResponse(f"/houses/{house.id}", status_code=303)
+        except svc.Conflict:
+            errors["form"] = "Someone else saved this house after you opened it; nothing was deleted."
+    deleting = data.get("action") == "delete"
+    area = None if deleting else parse_float(data.get("area", ""), "area", errors, units=house.units)
     if not errors:
         try:
             svc.update_surface(
@@ -172,6 +182,7 @@ def update_surface(
             AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
         )
         ctx = _context(session, org, house, surface, form, result, catalog=catalog)
-        ctx["detail_errors"], ctx["detail_form"] = errors, data
-        return render(request, "pages/surface.html", ctx, status_code=422)
+        ctx["detail_errors"], ctx["detail_form"] = errors, (None if deleting else data)
+        status = 409 if "form" in errors else 422  # someone else's save came first
+        return render(request, "pages/surface.html", ctx, status_code=status)
     return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)

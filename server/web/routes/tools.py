@@ -40,7 +40,7 @@ def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest |
         if key in _LENGTHS:
             values[key] = parse_length_field(text, units, key, errors)
             continue
-        values[key] = parse_float(text, key, errors, positive=key not in _SIGNED)
+        values[key] = parse_float(text, key, errors, positive=key not in _SIGNED, units=units)
     if errors:
         return None
     body = {

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from typing import cast
 
 from fastapi import APIRouter, Request
@@ -11,15 +12,17 @@ from server.documents.assembly import AssemblyInput
 from server.documents.common import Units
 from server.errors import InputError
 from server.services import houses as svc
+from server.services import idempotency as idem
 from server.services import upgrades as upg
 from server.services.assembly import evaluate_assembly
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
 from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
+from server.services.number_text import NumberTextError, read_integer
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
-from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep, render
+from server.web.deps import CurrentUser, OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
@@ -28,14 +31,15 @@ router = APIRouter()
 
 
 def _number(
-    data: dict[str, str], key: str, errors: dict[str, str], *, optional: bool = True
-) -> float | None:
+    data: dict[str, str], key: str, errors: dict[str, str], *, optional: bool = True,
+    units: str = "ip",
+) -> float | None:  # fmt: skip
     text = data.get(key, "").strip()
     if not text:
         if not optional:
             errors[key] = "required"
         return None if optional else 0.0
-    return parse_float(text, key, errors, positive=False)
+    return parse_float(text, key, errors, positive=False, units=units)
 
 
 def _upgrade_context(
@@ -78,28 +82,51 @@ def _upgrade_context(
 
 @router.post("/houses/{house_id}/upgrades")
 def add_upgrade(
-    request: Request, session: SessionDep, org: OrgDep, data: PostedFields, house_id: int
-):  # type: ignore[no-untyped-def]
+    request: Request, session: SessionDep, org: OrgDep, user: CurrentUser, data: PostedFields,
+    house_id: int,
+):  # type: ignore[no-untyped-def]  # fmt: skip
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
+
+    def once(purpose: str, work: Callable[[], str]) -> RedirectResponse:
+        """The same form posted again answers with the upgrade it made the first time."""
+        location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                key=idem.read_key(data), purpose=purpose, work=work)  # fmt: skip
+        return RedirectResponse(location, status_code=303)
+
     try:
         if data.get("kind") == "air_sealing":
-            target = _number(data, "cfm50_after", errors, optional=False)
-            fixed = _number(data, "cost_fixed", errors) or 0.0
-            rebate = _number(data, "rebate", errors) or 0.0
-            life = _number(data, "life_years", errors)
+            units = house.units
+            target = _number(data, "cfm50_after", errors, optional=False, units=units)
+            fixed = _number(data, "cost_fixed", errors, units=units) or 0.0
+            rebate = _number(data, "rebate", errors, units=units) or 0.0
+            life = _number(data, "life_years", errors, units=units)
             if not errors:
-                upg.add_air_sealing(session=session, house=house, name=data.get("name", ""), cfm50_after=target or 0.0,
-                                    fixed=fixed, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
-                return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
+
+                def sealing() -> str:
+                    upg.add_air_sealing(session=session, house=house, name=data.get("name", ""), cfm50_after=target or 0.0,
+                                        fixed=fixed, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
+                    return f"/houses/{house.id}#upgrades"
+
+                return once("air_sealing", sealing)
         else:
-            surface_id = int(data.get("surface_id", "0") or 0)
+            typed = data.get("surface_id", "")
+            try:
+                surface_id = read_integer(typed or "0", low=0)
+            except NumberTextError:
+                raise InputError(
+                    "surface_id", f"'{typed}' is not a surface of this house: choose one from the list"
+                ) from None
             surface = svc.get_surface(
                 session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
             )
-            upgrade = upg.add_assembly_upgrade(session=session, house=house, surface=surface, name=data.get("name", ""),
-                                               start=data.get("start", "as_found"), expected_version=form_version(data))  # fmt: skip
-            return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
+
+            def assembly() -> str:
+                upgrade = upg.add_assembly_upgrade(session=session, house=house, surface=surface, name=data.get("name", ""),
+                                                   start=data.get("start", "as_found"), expected_version=form_version(data))  # fmt: skip
+                return f"/houses/{house.id}/upgrades/{upgrade.id}"
+
+            return once("assembly_upgrade", assembly)
     except InputError as exc:
         errors[exc.field] = exc.message
     except svc.Conflict:
@@ -140,10 +167,11 @@ def update_upgrade(
                 session=session, house=house, upgrade=upgrade, expected_version=form_version(data)
             )
             return RedirectResponse(f"/houses/{house.id}#upgrades", status_code=303)
-        fixed = _number(data, "cost_fixed", errors) or 0.0
-        per_area = _number(data, "cost_per_area", errors) or 0.0
-        rebate = _number(data, "rebate", errors) or 0.0
-        life = _number(data, "life_years", errors)
+        units = house.units
+        fixed = _number(data, "cost_fixed", errors, units=units) or 0.0
+        per_area = _number(data, "cost_per_area", errors, units=units) or 0.0
+        rebate = _number(data, "rebate", errors, units=units) or 0.0
+        life = _number(data, "life_years", errors, units=units)
         if not errors:
             upg.update_upgrade(session=session, house=house, upgrade=upgrade, name=data.get("name", ""), fixed=fixed,
                                per_area=per_area, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
@@ -186,8 +214,16 @@ def save_upgrade_assembly(
     ctx = _upgrade_context(
         session, org, house, upgrade, form=form, result=result, message=message, catalog=catalog
     )
+    ctx["saved"] = status == 200  # the fragment then says which house version it stored
     template = "partials/layer_editor.html" if htmx else "pages/upgrade.html"
     return render(request, template, ctx, status_code=200 if htmx else status)
+
+
+def _package_id(text: str) -> int:
+    try:
+        return read_integer(text, low=0)
+    except NumberTextError:
+        raise InputError("package", "unknown package") from None
 
 
 @router.post("/houses/{house_id}/packages")
@@ -195,26 +231,37 @@ def add_package(
     request: Request,
     session: SessionDep,
     org: OrgDep,
+    user: CurrentUser,
     form: PostedForm,
     data: PostedFields,
     house_id: int,
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
+    status = 422
     try:
         if data.get("action", "").startswith("delete:"):
-            upg.delete_package(session=session, house=house, package_id=int(data["action"][7:] or 0),
+            upg.delete_package(session=session, house=house, package_id=_package_id(data["action"][7:]),
                                expected_version=form_version(data))  # fmt: skip
         else:
-            upg.add_package(session=session, house=house, name=data.get("name", ""),
-                            upgrade_slugs=[str(v) for v in form.getlist("upgrades")], expected_version=form_version(data))  # fmt: skip
+
+            def work() -> str:
+                upg.add_package(session=session, house=house, name=data.get("name", ""),
+                                upgrade_slugs=[str(v) for v in form.getlist("upgrades")], expected_version=form_version(data))  # fmt: skip
+                return f"/houses/{house.id}#packages"
+
+            # the same form posted again answers as the first time, with no second package
+            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                    key=idem.read_key(data), purpose="package", work=work)  # fmt: skip
+            return RedirectResponse(location, status_code=303)
         return RedirectResponse(f"/houses/{house.id}#packages", status_code=303)
     except (InputError, ValueError) as exc:
         errors["package"] = exc.message if isinstance(exc, InputError) else "unknown package"
     except svc.Conflict:
         errors["package"] = "Someone else saved this house after you opened it; nothing was saved."
+        status = 409
     from server.web.routes.houses import _house_context
 
     ctx = _house_context(session, org, house.id)
     ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
-    return render(request, "pages/house.html", ctx, status_code=422)
+    return render(request, "pages/house.html", ctx, status_code=status)

@@ -1,0 +1,386 @@
+"""Bills service: the bills document -> SI arrays -> variable-base fit -> result in its units.
+
+The one code path of ``POST /api/v1/calc/bills`` and of a house's ``bills`` (through
+:mod:`server.services.calibration`). Every bad input is an :class:`InputError` naming its
+field (``periods[3].end``, ``daily_temperatures``); with a ``prefix`` (``bills.``) the names
+are those of the house document.
+
+Warnings (computed anyway): a single period; two periods (the base is not searched); fewer
+than 9 periods; less than a year of periods; gaps between periods; a period of more than 40
+days; an estimated read; no heating signal (β ≤ 0 at every base); a heating slope less than
+twice its standard error; a small heating share; the best base at an end of the search range;
+a cooling term kept; no efficiency given; no normal temperatures.
+"""
+
+from __future__ import annotations
+
+from datetime import date, timedelta
+
+from pydantic import ValidationError
+
+from server.documents.bills import (
+    BillPeriodIn,
+    BillPeriodOut,
+    BillsIn,
+    BillsRequest,
+    BillsResult,
+    CriterionOut,
+)
+from server.errors import InputError
+from server.physics import bills as physics
+from server.physics.fuels import KWH_J, fuel_by_slug
+from server.physics.units import DELTA_F_K, UnitSystem, from_si, temp_from_c, temp_to_c
+
+#: fuels whose meter is an electricity meter (a cooling term may be tried)
+ELECTRIC_FUELS = frozenset({"electricity", "electric_resistance", "heat_pump"})
+#: plausible daily mean outdoor temperatures [°C] (common practice: beyond the records)
+PLAUSIBLE_C = (-90.0, 60.0)
+#: PRISM-style guidance on the data (common practice): periods, longest period [days]
+MIN_PERIODS = 9
+MAX_PERIOD_DAYS = 40
+YEAR_DAYS = 330
+
+METHOD = (
+    "PRISM-style variable-base degree-day regression (Fels 1986): use per day = α + β · HDD(τ) "
+    "per day, least squares weighted by each period's days, τ searched from 40 to 75 °F "
+    "(4.4–23.9 °C) on a 0.1 K grid then by golden section to 0.005 K; CV(RMSE) and NMBE as "
+    "ASHRAE Guideline 14 defines them on the periods' use, with p counting τ"
+)
+
+
+def fuel_unit_and_energy(fuel: str) -> tuple[str, str, float]:
+    """Label, unit of sale and energy per unit [J] of a bills fuel (``electricity``: kWh)."""
+    if fuel == "electricity":
+        return "Electricity", "kWh", KWH_J
+    row = fuel_by_slug(fuel)
+    return row.label, row.unit, row.energy_per_unit_j
+
+
+def _words(units: UnitSystem, value_c: float) -> str:
+    return f"{temp_from_c(value_c, units):.1f} {'°F' if units == 'ip' else '°C'}"
+
+
+def _daily_c(bills: BillsIn, units: UnitSystem, prefix: str) -> list[float | None]:
+    low, high = PLAUSIBLE_C
+    out: list[float | None] = []
+    for index, value in enumerate(bills.daily_temperatures.values):
+        if value is None:
+            out.append(None)
+            continue
+        celsius = temp_to_c(value, units)
+        if not low <= celsius <= high:
+            raise InputError(
+                f"{prefix}daily_temperatures.values[{index}]",
+                f"{value:g} is not a plausible daily mean (give {_words(units, low)} to "
+                f"{_words(units, high)})",
+            )
+        out.append(celsius)
+    return out
+
+
+def _normal_c(bills: BillsIn, units: UnitSystem, prefix: str) -> list[float] | None:
+    if bills.normal_temperatures is None:
+        return None
+    low, high = PLAUSIBLE_C
+    out = []
+    for index, value in enumerate(bills.normal_temperatures.values):
+        celsius = temp_to_c(value, units)
+        if not low <= celsius <= high:
+            raise InputError(
+                f"{prefix}normal_temperatures.values[{index}]",
+                f"{value:g} is not a plausible daily mean",
+            )
+        out.append(celsius)
+    return out
+
+
+def _ordered(bills: BillsIn, prefix: str) -> list[tuple[int, BillPeriodIn]]:
+    """Periods in date order with their document index; refuses empty and overlapping ones."""
+    for index, period in enumerate(bills.periods):
+        if period.end <= period.start:
+            raise InputError(
+                f"{prefix}periods[{index}].end",
+                f"must be after start ({period.start.isoformat()}): a period runs from one "
+                "meter read to the next",
+            )
+    ordered = sorted(enumerate(bills.periods), key=lambda item: item[1].start)
+    for (i_prev, prev), (i_next, nxt) in zip(ordered, ordered[1:], strict=False):
+        if nxt.start < prev.end:
+            raise InputError(
+                f"{prefix}periods[{i_next}].start",
+                f"overlaps periods[{i_prev}] ({prev.start.isoformat()} to "
+                f"{prev.end.isoformat()}); each day belongs to one period",
+            )
+    return ordered
+
+
+def _covered(
+    ordered: list[tuple[int, BillPeriodIn]],
+    first: date,
+    daily: list[float | None],
+    prefix: str,
+) -> list[physics.Period]:
+    """The periods as indices into the daily series; 422 at the first day without a value."""
+    out = []
+    last = first + timedelta(days=len(daily) - 1)
+    for index, period in ordered:
+        start = (period.start - first).days
+        days = (period.end - period.start).days
+        for offset in range(days):
+            day = start + offset
+            if day < 0 or day >= len(daily) or daily[day] is None:
+                missing = period.start + timedelta(days=offset)
+                raise InputError(
+                    f"{prefix}daily_temperatures",
+                    f"has no value for {missing.isoformat()} (in periods[{index}], "
+                    f"{period.start.isoformat()} to {period.end.isoformat()}); the daily "
+                    f"temperatures run from {first.isoformat()} to {last.isoformat()} and must "
+                    "cover every day of every period",
+                )
+        out.append(physics.Period(start, days, period.use))
+    return out
+
+
+def _listed(items: list[str], most: int = 5) -> str:
+    """``a, b and c``; past ``most`` items, ``a, b, c, d, e and 7 more``."""
+    if len(items) > most:
+        return ", ".join(items[:most]) + f" and {len(items) - most} more"
+    return items[0] if len(items) == 1 else ", ".join(items[:-1]) + " and " + items[-1]
+
+
+def _data_warnings(ordered: list[tuple[int, BillPeriodIn]]) -> list[str]:
+    notes = []
+    count = len(ordered)
+    total = sum((p.end - p.start).days for _i, p in ordered)
+    if count == 1:
+        notes.append(
+            "a single period: no regression is possible, so its average daily use is reported "
+            "as the baseload, with no heating slope"
+        )
+    elif count < MIN_PERIODS:
+        notes.append(
+            f"only {count} periods: a reliable fit needs at least {MIN_PERIODS}, covering a "
+            "heating season and some mild months"
+        )
+    if count > 1 and total < YEAR_DAYS:
+        notes.append(
+            f"the periods cover {total} days, less than a year: the fit may not see the whole "
+            "range of the weather"
+        )
+    gaps = []
+    for (i_prev, prev), (i_next, nxt) in zip(ordered, ordered[1:], strict=False):
+        gap = (nxt.start - prev.end).days
+        if gap > 0:
+            gaps.append(
+                f"{gap} day{'s' if gap != 1 else ''} between periods[{i_prev}] (read "
+                f"{prev.end.isoformat()}) and periods[{i_next}] (read {nxt.start.isoformat()})"
+            )
+    if gaps:
+        notes.append(
+            f"{'a gap' if len(gaps) == 1 else f'{len(gaps)} gaps'} between periods: "
+            f"{_listed(gaps)}; the use of those days is not in the bills, so it is not in the fit"
+        )
+    long = [
+        f"periods[{index}] ({period.start.isoformat()} to {period.end.isoformat()}, "
+        f"{(period.end - period.start).days} days)"
+        for index, period in ordered
+        if (period.end - period.start).days > MAX_PERIOD_DAYS
+    ]
+    if long:
+        notes.append(
+            f"{_listed(long)} {'runs' if len(long) == 1 else 'run'} more than "
+            f"{MAX_PERIOD_DAYS} days: a long period blurs the weather it saw (often two bills "
+            "merged, or a missed read)"
+        )
+    estimated = [
+        f"periods[{index}] ({period.start.isoformat()} to {period.end.isoformat()})"
+        for index, period in ordered
+        if period.estimated
+    ]
+    if estimated:
+        notes.append(
+            f"{_listed(estimated)} {'is an estimated read' if len(estimated) == 1 else 'are estimated reads'}"
+            ": the utility guessed the use, and the next actual read corrects it"
+        )
+    return notes
+
+
+def fit_bills_document(
+    bills: BillsIn,
+    *,
+    units: UnitSystem,
+    fuel: str,
+    efficiency: float | None,
+    prefix: str = "",
+    efficiency_note: str | None = None,
+) -> BillsResult:
+    """Fit the bills and report the result in ``units``; see the module docstring.
+
+    ``efficiency`` None = 1.0 with a warning (``efficiency_note`` words a default the caller
+    chose instead, e.g. the house's heating efficiency).
+    """
+    daily = _daily_c(bills, units, prefix)
+    normal = _normal_c(bills, units, prefix)
+    ordered = _ordered(bills, prefix)
+    first = bills.daily_temperatures.start
+    periods = _covered(ordered, first, daily, prefix)
+    series = [0.0 if value is None else value for value in daily]
+    cooling = bills.cooling_term == "auto" and fuel in ELECTRIC_FUELS
+    try:
+        fit = physics.fit_bills(series, periods, cooling=cooling)
+        normalized = None if normal is None else physics.normalize(fit, normal)
+    except ValueError as exc:
+        raise InputError(f"{prefix}periods", str(exc)) from None
+    label, unit, energy_j = fuel_unit_and_energy(fuel)
+    warnings = _data_warnings(ordered)
+    if efficiency is None:
+        efficiency = 1.0
+        warnings.append(
+            "no efficiency given: the apparent UA is computed at 1.0 (all the fuel's energy "
+            "as heat), an upper bound for a furnace or boiler; give efficiency for the real one"
+        )
+    elif efficiency_note:
+        warnings.append(efficiency_note)
+    warnings.extend(_fit_warnings(fit, normalized, units))
+    if normalized is None:
+        warnings.append(
+            "no normal_temperatures: the weather-normalised annual figures are not computed"
+        )
+    ip = units == "ip"
+
+    def per_dd(value: float | None) -> float | None:  # per K·day -> per °F·day
+        return None if value is None else value * DELTA_F_K if ip else value
+
+    def dd(value: float) -> float:
+        return from_si(value, "degree_days", units)
+
+    def temp(value: float | None) -> float | None:
+        return None if value is None else temp_from_c(value, units)
+
+    ua = physics.apparent_ua_w_per_k(fit.heating_slope, energy_j, efficiency)
+    checks = physics.criteria(fit)
+    met = [c.met for c in checks]
+    try:
+        return BillsResult(
+            units=units,
+            fuel=fuel,
+            fuel_unit=unit,
+            model=fit.model,
+            base_temperature=temp(fit.base_c),
+            base_temperature_searched=fit.base_searched,
+            baseload_per_day=fit.baseload_per_day,
+            heating_slope=per_dd(fit.heating_slope) or 0.0,
+            heating_slope_std_error=per_dd(fit.heating_slope_std_error),
+            cooling_slope=per_dd(fit.cooling_slope),
+            cooling_slope_std_error=per_dd(fit.cooling_slope_std_error),
+            cooling_base_temperature=temp(fit.cooling_base_c),
+            r_squared=fit.r_squared,
+            cv_rmse=fit.cv_rmse,
+            nmbe=fit.nmbe,
+            parameters=fit.parameters,
+            periods_used=fit.periods,
+            days=int(sum(fit.days)),
+            normal_days=None if normalized is None else normalized.days,
+            heating_degree_days_normal=None if normalized is None else dd(normalized.hdd_k_day),
+            cooling_degree_days_normal=None
+            if normalized is None or fit.cooling_base_c is None
+            else dd(normalized.cdd_k_day),
+            normalized_annual_use=None if normalized is None else normalized.annual_use,
+            normalized_annual_heating_use=None if normalized is None else normalized.heating_use,
+            normalized_annual_baseload=None
+            if normalized is None
+            else normalized.days * fit.baseload_per_day,
+            efficiency=efficiency,
+            heating_ua_equivalent=from_si(ua, "ua", units),
+            criteria=[
+                CriterionOut(
+                    name=c.name,
+                    source=c.source,
+                    statistic=c.statistic,
+                    limit=c.limit_percent,
+                    value=c.value,
+                    met=c.met,
+                )
+                for c in checks
+            ],
+            criteria_met=None if None in met else all(met),
+            periods=[
+                BillPeriodOut(
+                    start=period.start,
+                    end=period.end,
+                    days=int(fit.days[k]),
+                    use=period.use,
+                    estimated=period.estimated,
+                    hdd=dd(fit.hdd[k]),
+                    cdd=dd(fit.cdd[k]),
+                    predicted=fit.predicted[k],
+                    residual=period.use - fit.predicted[k],
+                )
+                for k, (_index, period) in enumerate(ordered)
+            ],
+            method=METHOD + f" (here p = {fit.parameters}); fuel: {label}",
+            warnings=warnings,
+        )
+    except ValidationError as exc:  # the result parts refuse inf and NaN
+        raise InputError(
+            f"{prefix}periods", "these bills give numbers too large to compute; check the use"
+        ) from exc
+
+
+def _fit_warnings(
+    fit: physics.BillsFit, normalized: physics.Normalized | None, units: UnitSystem
+) -> list[str]:
+    notes = []
+    low, high = (_words(units, v) for v in physics.HEATING_BASE_RANGE_C)
+    if fit.periods == 2:
+        notes.append(
+            "two periods: the base temperature cannot be searched, so "
+            f"{_words(units, physics.REFERENCE_BASE_C)} is used (common practice)"
+        )
+    if fit.periods >= 2 and fit.model == "baseload":
+        notes.append(
+            f"no heating signal: the use does not rise with heating degree-days at any base from "
+            f"{low} to {high} (heating slope β ≤ 0), so the baseload carries it all; a fuel used "
+            "only for water heating or cooking looks like this"
+        )
+    elif fit.model == "cooling":
+        notes.append(
+            f"no heating signal: the use does not rise with heating degree-days at any base from "
+            f"{low} to {high} (heating slope β ≤ 0); it is baseload plus cooling"
+        )
+    error = fit.heating_slope_std_error
+    if fit.heating_slope > 0 and error is not None and fit.heating_slope < 2.0 * error:
+        notes.append(
+            "the heating slope is less than twice its standard error: the bills barely show "
+            "heating, so the heating figures are uncertain"
+        )
+    if (
+        normalized is not None
+        and fit.heating_slope > 0
+        and normalized.annual_use > 0
+        and normalized.heating_use < 0.10 * normalized.annual_use
+    ):
+        notes.append(
+            f"heating is only {100 * normalized.heating_use / normalized.annual_use:.0f} % of "
+            "the normalised use: the baseload (water heating, cooking, appliances) carries most"
+        )
+    if fit.base_at_limit:
+        notes.append(
+            f"the best base temperature lies at an end of the search range ({low} to {high}): "
+            "the house's balance point may lie outside it"
+        )
+    if fit.model in ("heating_and_cooling", "cooling"):
+        notes.append(
+            "a cooling term was added: the use also rises with cooling degree-days, and the "
+            "term lowers CV(RMSE) even counting its two extra parameters"
+            if fit.model == "heating_and_cooling"
+            else "the use rises with cooling degree-days: a cooling-only model fits best"
+        )
+    return notes
+
+
+def compute_bills(request: BillsRequest) -> BillsResult:
+    """``POST /api/v1/calc/bills``: what the bills say, in the request's units."""
+    return fit_bills_document(
+        request, units=request.units, fuel=request.fuel, efficiency=request.efficiency
+    )

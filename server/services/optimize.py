@@ -1,0 +1,140 @@
+"""The best package for a budget, in a house document (``optimize`` -> ``best``, ``frontier``).
+
+Rules decided here (the contract was silent):
+
+* ``optimize.budget`` is on the net cost (installed cost − rebates), in the document's
+  currency; omitted (null) means no budget. A negative or non-finite budget, or an unknown
+  objective, is a 422 naming the field (the document model refuses them).
+* The empty set ("no upgrade", net cost 0, every saving 0) is always allowed. When it is the
+  best allowed set — nothing within the budget beats leaving the house as it is, e.g. a budget
+  of 0 and no free upgrade — ``best`` is ``null`` and ``optimization.best_is_no_upgrade`` is
+  true, with a plain warning.
+* ``best`` is computed as a package is (one modified house through the package path,
+  :func:`server.physics.house_model.evaluate_option` and the package figures), with its
+  upgrades in document order; ``frontier`` is computed by the array core
+  (:mod:`server.physics.variants`), the same figures to floating-point rounding.
+* ``frontier`` spans every budget (it shows what more or less money would buy), ascending by
+  net cost, at most ``optimize.frontier_limit`` points (the ones of highest net cost when there
+  are more; a warning says so). The empty set appears on it when it is a frontier point.
+* ``optimization`` says how the answer was found and whether it is exact (see
+  :mod:`server.physics.optimize`); when it is not, a warning states the bound.
+"""
+
+from __future__ import annotations
+
+import math
+
+from server.documents.house import (
+    FrontierPoint,
+    HouseDocument,
+    HouseResult,
+    OptimizationFigures,
+)
+from server.errors import InputError
+from server.physics import house_model as model
+from server.physics import optimize as search
+from server.physics.units import from_si
+from server.physics.variants import Variants
+from server.services.catalog import Catalog
+
+OBJECTIVE_WORDS = {
+    "npv": "net present value",
+    "annual_savings": "first-year savings at today's prices",
+    "co2": "CO2 avoided per year (kg)",
+}
+
+
+def model_of_document(
+    doc: HouseDocument, *, catalog: Catalog | None = None
+) -> tuple[model.House, list[model.Upgrade]]:
+    """The pure house and upgrades of a document, by the steps of ``compute_house``."""
+    from server.services import house as service
+
+    build = service._Build(units=doc.units, catalog=catalog)
+    service._check_ids(doc, build)
+    service._check_spaces(doc, build)
+    house = service._with_spaces(doc, service._house(doc, build))
+    pure = [service._upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
+    build.raise_problems()
+    return house, [u for u in pure if u is not None]
+
+
+def attach_optimum(
+    doc: HouseDocument,
+    house: model.House,
+    upgrades: list[model.Upgrade],
+    as_found: model.HouseEnergy,
+    result: HouseResult,
+) -> None:
+    """With ``doc.optimize``: fill ``result.best``, ``result.frontier`` and
+    ``result.optimization``. Without it nothing changes."""
+    wanted = doc.optimize
+    if wanted is None:
+        return
+    from server.services.house import _option
+
+    try:
+        variants = Variants(house, upgrades)
+    except ValueError as exc:  # compute_house checked these already; a guard against a 500
+        raise InputError("upgrades", str(exc)) from None
+    budget = math.inf if wanted.budget is None else wanted.budget
+    found = search.best_package(
+        variants,
+        budget=budget,
+        objective=wanted.objective,
+        frontier_limit=wanted.frontier_limit,
+    )
+    warnings = list(found.warnings)
+    by_id = {u.id: u for u in upgrades}
+    best = None
+    if found.best.upgrade_ids:
+        chosen = [by_id[name] for name in found.best.upgrade_ids]
+        option = model.evaluate_option(house, as_found, "best", chosen)
+        best = _option(doc, house, by_id, as_found, option, "Best for the budget")
+    else:
+        warnings.append(
+            "no set of upgrades within the budget beats leaving the house as it is "
+            f"({OBJECTIVE_WORDS[wanted.objective]}); best is null: no upgrade"
+        )
+    frontier = []
+    if found.frontier:
+        rows = [list(point.selection) for point in found.frontier]
+        import numpy as np
+
+        figures = variants.evaluate(np.array(rows, dtype=np.int64))
+        for index, point in enumerate(found.frontier):
+            sir = float(figures.sir[index])
+            savings = float(figures.annual_savings[index])
+            net = float(figures.net_cost[index])
+            frontier.append(
+                FrontierPoint(
+                    upgrades=list(point.upgrade_ids),
+                    net_cost=net,
+                    objective_value=point.objective_value,
+                    annual_savings=savings,
+                    npv=float(figures.npv[index]),
+                    sir=None if math.isnan(sir) else sir,
+                    co2_avoided=float(figures.co2_avoided_kg[index]),
+                    installed_cost=float(figures.installed_cost[index]),
+                    rebates=float(figures.rebates[index]),
+                    simple_payback_years=None if savings <= 0 else max(net, 0.0) / savings,
+                    total_cost=float(figures.total_cost[index]),
+                    ua=from_si(float(figures.ua_w_per_k[index]), "ua", doc.units),
+                )
+            )
+    result.best = best
+    result.frontier = frontier
+    result.optimization = OptimizationFigures(
+        objective=wanted.objective,
+        objective_meaning=OBJECTIVE_WORDS[wanted.objective],
+        budget=wanted.budget,
+        objective_value=found.best.objective_value,
+        best_is_no_upgrade=not found.best.upgrade_ids,
+        exact=found.exact,
+        method=found.method,
+        method_meaning=search.METHOD_WORDS[found.method],
+        upper_bound=found.upper_bound,
+        sets=found.sets,
+        frontier_capped=found.frontier_capped,
+        warnings=warnings,
+    )
