@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import dataclasses
 from dataclasses import dataclass
+from typing import Any
 
 
 @dataclass
@@ -33,3 +34,27 @@ class InputError(Exception):
 
     def errors(self) -> list[FieldError]:
         return [FieldError(self.field, self.message), *self.more]
+
+
+class NotFound(Exception):
+    """The object does not exist for this organization (shown as 404, never 403)."""
+
+
+@dataclass
+class Conflict(Exception):
+    """Someone else saved the house since this form was loaded."""
+
+    current_version: int
+
+
+def field_path(loc: tuple[Any, ...] | list[Any]) -> str:
+    """``("body", "layers", 2, "thickness")`` -> ``"layers[2].thickness"``."""
+    out = ""
+    for part in loc:
+        if part in ("body", "query", "path", "form"):
+            continue
+        if isinstance(part, int):
+            out += f"[{part}]"
+        else:
+            out += ("." if out else "") + str(part)
+    return out or "body"

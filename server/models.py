@@ -90,6 +90,9 @@ class House(Base):
     #: unconditioned (buffer) spaces, ISO 13789: the house document's ``spaces`` as stored;
     #: what each surface faces is its ``details["adjacent"]``
     spaces: Mapped[list[Any] | None] = mapped_column(JSON, nullable=True)
+    #: the heating fuel's bills with the weather of their dates: the house document's ``bills``
+    #: as stored, in the house's units (:mod:`server.services.house_bills`)
+    bills: Mapped[dict[str, Any] | None] = mapped_column(JSON, nullable=True)
     version: Mapped[int] = mapped_column(Integer, default=1)
     created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)
     updated_at: Mapped[datetime] = mapped_column(

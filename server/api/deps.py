@@ -1,7 +1,8 @@
 """Annotated dependencies shared by the JSON routes.
 
-The API imports nothing from ``server.web``: what it shares with the pages lives in
-``server.services`` (the user lookup of a session cookie, the firm's catalog).
+The API imports nothing of the pages' package (``web``): what it shares with them lives in
+``server.deps`` (the request's session, the signed-in user and firm) and ``server.services``
+(the user lookup of a session cookie, the firm's catalog).
 """
 
 from __future__ import annotations

@@ -10,7 +10,7 @@ from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse
 from pydantic import BaseModel
 
-from server.errors import InputError
+from server.errors import InputError, field_path
 
 
 class FieldProblem(BaseModel):
@@ -59,19 +59,6 @@ SIGNED_IN_RESPONSES: dict[int | str, dict[str, Any]] = {
 NOT_FOUND_RESPONSES: dict[int | str, dict[str, Any]] = {
     404: {"model": ErrorBody, "description": "No such house in the signed-in user's firm."},
 }
-
-
-def field_path(loc: tuple[Any, ...] | list[Any]) -> str:
-    """``("body", "layers", 2, "thickness")`` -> ``"layers[2].thickness"``."""
-    out = ""
-    for part in loc:
-        if part in ("body", "query", "path", "form"):
-            continue
-        if isinstance(part, int):
-            out += f"[{part}]"
-        else:
-            out += ("." if out else "") + str(part)
-    return out or "body"
 
 
 def _plain(error: dict[str, Any]) -> str:

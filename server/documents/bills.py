@@ -10,6 +10,11 @@ gallon, kWh, cord) in both systems. Decisions the contract left open:
   in date order and must not overlap.
 * ``daily_temperatures.values`` are consecutive daily means from ``start``; a ``null`` is a
   missing day. Every day of every period must have a value.
+* Instead of daily temperatures, every period may give its heating degree-days ``hdd`` at a
+  stated ``degree_day_base`` (typed from the bills or a weather service): the fit then takes
+  that base as fixed (it cannot be searched) and counts two parameters (α, β), not three.
+* ``source`` on a period and on ``daily_temperatures`` records where it came from; the fit
+  does not use it.
 * ``normal_temperatures`` (365 daily means of a typical year, 366 allowed) is optional on
   ``calc/bills`` (the normalised figures are then null) and required on a house.
 * ``efficiency`` is optional: omitted, the apparent UA is computed at 1.0 (the fuel's energy
@@ -41,6 +46,7 @@ BillsFuel = Literal[
     "electricity",
 ]
 ModelName = Literal["heating", "heating_and_cooling", "cooling", "baseload"]
+BillSource = Literal["typed", "pasted", "csv", "green_button"]
 
 _ISO_DATE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
 
@@ -70,6 +76,14 @@ class BillPeriodIn(Strict):
     use: Annotated[float, Field(ge=0, le=1e9, allow_inf_nan=False)]
     cost: Annotated[float, Field(ge=0, le=1e9, allow_inf_nan=False)] | None = None
     estimated: bool = Field(default=False, description="an estimated (not read) meter figure")
+    hdd: Annotated[float, Field(ge=0, le=1e5, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="heating degree-days of the period at degree_day_base (°F·day or K·day), "
+        "when typed instead of daily temperatures",
+    )
+    source: BillSource | None = Field(
+        default=None, description="how the row came in: typed, pasted, csv or green_button"
+    )
 
 
 class DailyTemperaturesIn(Strict):
@@ -77,6 +91,9 @@ class DailyTemperaturesIn(Strict):
 
     start: IsoDate
     values: list[Temperature | None] = Field(min_length=1, max_length=40_000)
+    source: Annotated[str, Field(max_length=300)] | None = Field(
+        default=None, description="where the temperatures came from, in words"
+    )
 
 
 class NormalTemperaturesIn(Strict):
@@ -92,7 +109,14 @@ class BillsIn(Strict):
         default=None, description="required on calc/bills; on a house omitted = heating fuel"
     )
     periods: list[BillPeriodIn] = Field(min_length=1, max_length=400)
-    daily_temperatures: DailyTemperaturesIn
+    daily_temperatures: DailyTemperaturesIn | None = Field(
+        default=None, description="required unless every period gives hdd at degree_day_base"
+    )
+    degree_day_base: Temperature | None = Field(
+        default=None,
+        description="the base (°F or °C) of the degree-days typed on each period (hdd); the "
+        "fit then takes this base instead of searching one",
+    )
     normal_temperatures: NormalTemperaturesIn | None = None
     efficiency: Annotated[float, Field(gt=0, le=10, allow_inf_nan=False)] | None = Field(
         default=None,
@@ -165,7 +189,8 @@ class BillsResult(FiniteParts):
     )
     base_temperature: float | None = Field(description="τ, °F or °C; null without heating")
     base_temperature_searched: bool = Field(
-        description="false when τ was fixed at 65 °F / 18.3 °C (two periods)"
+        description="false when τ was fixed at 65 °F / 18.3 °C (two periods) or at the "
+        "degree_day_base of typed degree-days"
     )
     baseload_per_day: float = Field(description="α, fuel units per day")
     heating_slope: float = Field(description="β, fuel units per °F·day or K·day")

@@ -10,6 +10,8 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field
 
+from server.documents.solar import SolarIn
+
 WeatherKind = Literal["epw", "tmy3", "csv-hourly", "csv-daily"]
 
 
@@ -32,6 +34,15 @@ class DegreeDaysAtBase(BaseModel):
     base: float = Field(description="Base temperature (°F or °C).")
     hdd: float
     cdd: float
+
+
+class TemperatureBin(BaseModel):
+    """Hours of the file with the dry-bulb in one bin (centre in °F or °C)."""
+
+    model_config = ConfigDict(extra="forbid")
+
+    temperature: float = Field(description="Bin centre (°F or °C).")
+    hours: float = Field(ge=0)
 
 
 class DegreeDaysResult(BaseModel):
@@ -76,6 +87,18 @@ class DegreeDaysResult(BaseModel):
     degree_days_by_base: list[DegreeDaysAtBase] = Field(
         description="HDD and CDD over a range of bases (0–30 °C by 1 K, or 32–86 °F by 2 °F), "
         "for the variable-base degree-day method."
+    )
+    temperature_bins: list[TemperatureBin] | None = Field(
+        default=None,
+        description="Hourly files only: hours per dry-bulb bin, 1 K wide centred on whole °C "
+        "(si) or 2 °F wide centred on even °F (ip), ascending; the house document's "
+        "climate.temperature_bins (a heat pump is then computed bin by bin).",
+    )
+    solar: SolarIn | None = Field(
+        default=None,
+        description="EPW and TMY3 files: irradiation over the heating days at each base of "
+        "degree_days_by_base (Btu/ft² or kWh/m²), from the file's hourly GHI, DNI and DHI; the "
+        "house document's climate.solar (the windows' solar gains).",
     )
     warnings: list[str] = Field(
         default_factory=list,

@@ -45,6 +45,17 @@ from server.documents.common import (
 )
 from server.documents.ground import GroundIn
 from server.documents.pipe import PipeLayerIn
+from server.documents.solar import CompassPoint, SolarIn
+from server.documents.systems import (
+    DistributionFigures,
+    DuctsIn,
+    HeatPumpFigures,
+    HeatPumpIn,
+    MechanicalVentilationIn,
+    NFactorTableIn,
+    TemperatureBinIn,
+    WaterHeaterIn,
+)
 
 Ident = Annotated[str, Field(min_length=1, max_length=80, pattern=r"^[A-Za-z0-9][A-Za-z0-9_.-]*$")]
 Rate = Annotated[float, Field(gt=-1, lt=1, allow_inf_nan=False)]
@@ -72,7 +83,9 @@ SurfaceKind = Literal[
     "other",
     "pipe_run",
 ]
-UpgradeKind = Literal["assembly", "air_sealing", "pipe_insulation"]
+UpgradeKind = Literal[
+    "assembly", "air_sealing", "pipe_insulation", "duct_sealing", "duct_insulation", "window"
+]
 #: conditioned volume: at least 1 ft³, at most 1e9 m³, the same physical span in both systems
 VOLUME = unit_span("volume", "ft³", "m³", low_ip=1.0, high_si=1e9)
 #: degree-days: at most 30,000 K·day (54,000 °F·day), generous for any climate (common practice)
@@ -96,11 +109,17 @@ class VariableBaseIn(Strict):
     ``table`` is degree-days by base, e.g. ``degree_days_by_base`` of /calc/degree-days.
     """
 
-    setpoint: Annotated[float, Field(ge=-60, le=120, allow_inf_nan=False)] = Field(
-        description="thermostat set-point, °F or °C"
+    setpoint: Annotated[float, Field(ge=-60, le=120, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="thermostat set-point, °F or °C; omitted = 68 °F / 20 °C (ANSI/RESNET/ICC "
+        "301 reference heating set-point, from memory)",
     )
-    internal_gains: Annotated[float, Field(ge=0, le=1e7, allow_inf_nan=False)] = Field(
-        description="average internal and solar gains, Btu/h or W"
+    internal_gains: Annotated[float, Field(ge=0, le=1e7, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="average internal and solar gains typed as one figure, Btu/h or W (the "
+        "windows' solar gains are then not added); omitted = the house's internal_gains (or "
+        "the ANSI/RESNET/ICC 301 default from floor_area and bedrooms) plus each window's "
+        "solar gain from climate.solar",
     )
     table: list[DegreeDaysRowIn] = Field(min_length=2, max_length=200)
 
@@ -124,6 +143,11 @@ class ClimateIn(Strict):
     heating_base: Number | None = None
     cooling_base: Number | None = None
     variable_base: VariableBaseIn | None = None
+    solar: SolarIn | None = Field(
+        default=None,
+        description="heating-day irradiation by base of the weather file (solar of "
+        "/calc/degree-days): with variable_base, each window's solar gain sets the balance point",
+    )
 
     @field_validator("hdd", "cdd")
     @classmethod
@@ -137,6 +161,22 @@ class ClimateIn(Strict):
     indoor_design_temperature: Annotated[float, Field(ge=-20, le=120, allow_inf_nan=False)] | None = Field(
         default=None,
         description="indoor design temperature, °F or °C; omitted = 70 °F / 21 °C",
+    )
+    temperature_bins: list[TemperatureBinIn] | None = Field(
+        default=None,
+        max_length=400,
+        description="hours per outdoor dry-bulb bin (temperature_bins of /calc/degree-days): a "
+        "heat pump is then computed bin by bin",
+    )
+    elevation: Annotated[float, Field(ge=-1600, le=36000, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="ft or m above sea level: the air's heat capacity follows the standard "
+        "atmosphere's pressure; omitted = sea level",
+    )
+    heating_season_temperature: Annotated[float, Field(ge=-60, le=80, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="heating season's mean outdoor temperature, °F or °C, for the ducts' "
+        "seasonal efficiency; omitted = from temperature_bins or the degree-days",
     )
 
 
@@ -154,6 +194,13 @@ class HeatingIn(Strict):
         description="the heating equipment's output capacity, Btu/h or W; with a design "
         "temperature every variant reports capacity_ratio",
     )
+    ducts: DuctsIn | None = Field(
+        default=None, description="forced-air ducts (ASHRAE Standard 152); omitted = none"
+    )
+    heat_pump: HeatPumpIn | None = Field(
+        default=None,
+        description="fuel heat_pump: rated figures, computed over climate.temperature_bins",
+    )
 
     @field_validator("efficiency")
     @classmethod
@@ -165,6 +212,12 @@ class HeatingIn(Strict):
                 "only a heat pump takes a COP above 1"
             )
         return value
+
+    @model_validator(mode="after")
+    def _heat_pump_rating(self) -> HeatingIn:
+        if self.heat_pump is not None and self.fuel != "heat_pump":
+            raise ValueError("heat_pump ratings belong to a heating system of fuel heat_pump")
+        return self
 
 
 class CoolingIn(Strict):
@@ -189,6 +242,11 @@ class AirLeakageIn(Strict):
     n_factor: Annotated[float, Field(ge=1, le=100, allow_inf_nan=False)] = Field(
         default=18.0, description="LBL N-factor; 18 when omitted (common practice)"
     )
+    n_factor_table: NFactorTableIn | None = Field(
+        default=None,
+        description="the N-factor from the LBL table by climate zone, stories and shielding "
+        "instead of n_factor",
+    )
     volume: Annotated[float, Field(gt=0, allow_inf_nan=False)]
 
     @field_validator("volume")
@@ -200,6 +258,9 @@ class AirLeakageIn(Strict):
     def _one_figure(self) -> AirLeakageIn:
         if (self.cfm50 is None) == (self.n50 is None):
             raise ValueError("give the air leakage exactly one of cfm50 or n50")
+        # the table replaces n_factor; an exported document carries the default 18 beside it
+        if self.n_factor_table is not None and self.n_factor != 18.0:
+            raise ValueError("give either n_factor or n_factor_table, not both")
         return self
 
 
@@ -211,7 +272,36 @@ class PipeIn(Strict):
     fluid_temperature: Number
     ambient_temperature: Number
     surface_coefficient: Positive | None = None
-    emissivity: Annotated[float, Field(gt=0, le=1, allow_inf_nan=False)] = 0.9
+    emissivity: Annotated[float, Field(gt=0, le=1, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="outer surface; omitted = 0.1 for bare copper, else 0.9 (jacket, paint)",
+    )
+    material: Literal["copper", "steel", "plastic", "other"] | None = Field(
+        default=None, description="the pipe's own material (a bare pipe's emissivity)"
+    )
+    service: Literal["heating_water", "domestic_hot_water"] | None = Field(
+        default=None, description="what it carries; omitted = bought at the heating system"
+    )
+    location: Ident | None = Field(
+        default=None,
+        description="conditioned, unconditioned or a space id; omitted = a full loss",
+    )
+    water_heater: WaterHeaterIn | None = Field(
+        default=None, description="domestic hot water: the heater that buys its loss"
+    )
+    heating_season_share: Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="share of its hot hours in the heating season; omitted = from the bins, "
+        "else 7/12",
+    )
+
+    @model_validator(mode="after")
+    def _service(self) -> PipeIn:
+        if self.water_heater is not None and self.service != "domestic_hot_water":
+            raise ValueError("a water_heater belongs to a pipe of service domestic_hot_water")
+        if self.service == "domestic_hot_water" and self.water_heater is None:
+            raise ValueError("a domestic_hot_water pipe needs its water_heater")
+        return self
 
 
 class ExposedPartIn(Strict):
@@ -269,6 +359,34 @@ class SurfaceIn(Strict):
         description="slab, basement_floor, basement_wall: ground contact by ISO 13370 (the "
         "assembly gives R_f or R_w, films excluded); its UA then uses the ground U",
     )
+    shgc: Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)] | None = Field(
+        default=None, description="a window's solar heat gain coefficient, 0..1"
+    )
+    orientation: CompassPoint | None = Field(
+        default=None, description="the way the surface faces: N, NE, E, SE, S, SW, W or NW"
+    )
+    azimuth: Annotated[float, Field(ge=0, le=360, allow_inf_nan=False)] | None = Field(
+        default=None, description="the way it faces in degrees from north, clockwise (instead "
+        "of orientation)",
+    )
+    tilt: Annotated[float, Field(ge=0, le=90, allow_inf_nan=False)] | None = Field(
+        default=None, description="degrees from horizontal: 90 a wall's window (the default), "
+        "0 a flat skylight",
+    )
+
+    @field_validator("shgc")
+    @classmethod
+    def _shgc_on_windows(cls, value: float | None, info: ValidationInfo) -> float | None:
+        if value is not None and info.data.get("kind") not in (None, "window"):
+            raise ValueError(f"shgc belongs to a window, not a {info.data.get('kind')}")
+        return value
+
+    @field_validator("azimuth")
+    @classmethod
+    def _one_facing(cls, value: float | None, info: ValidationInfo) -> float | None:
+        if value is not None and info.data.get("orientation") is not None:
+            raise ValueError("give either orientation or azimuth, not both")
+        return value
 
     @model_validator(mode="after")
     def _shape(self) -> SurfaceIn:
@@ -322,14 +440,96 @@ class UpgradeIn(Strict):
         description="a ground surface's changed ground inputs (e.g. slab edge insulation); the "
         "fields given replace the surface's; with no new assembly the surface's is kept",
     )
+    supply_leakage_after: Annotated[float, Field(ge=0, le=0.9, allow_inf_nan=False)] | None = Field(
+        default=None, description="duct sealing: supply leakage fraction after"
+    )
+    return_leakage_after: Annotated[float, Field(ge=0, le=0.9, allow_inf_nan=False)] | None = Field(
+        default=None, description="duct sealing: return leakage fraction after"
+    )
+    supply_r_after: Annotated[float, Field(ge=0.01, le=100, allow_inf_nan=False)] | None = Field(
+        default=None, description="duct insulation: supply duct R after (films included)"
+    )
+    return_r_after: Annotated[float, Field(ge=0.01, le=100, allow_inf_nan=False)] | None = Field(
+        default=None, description="duct insulation: return duct R after (films included)"
+    )
+    emissivity: Annotated[float, Field(gt=0, le=1, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="pipe insulation: the jacket's emissivity; omitted = 0.9 (common practice)",
+    )
+    shgc: Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="window upgrade (storm panel, replacement): the window's SHGC after, 0..1",
+    )
     cost: CostIn = Field(default_factory=CostIn)
     rebate: Money = 0.0
     life_years: Annotated[float, Field(gt=0, le=100, allow_inf_nan=False)] | None = None
 
     @model_validator(mode="after")
+    def _window(self) -> UpgradeIn:
+        """A window upgrade: a window surface, its new U (``u``, ``r`` or an assembly) and
+        SHGC, priced fixed + per_area (checked before :meth:`_shape`)."""
+        if self.kind is None and self.shgc is not None:
+            self.kind = "window"
+        if self.kind != "window":
+            if self.shgc is not None:
+                raise ValueError(f"shgc belongs to a window upgrade, not one of kind {self.kind}")
+            return self
+        given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
+        wrong = [
+            n
+            for n in ("cfm50_after", "n50_after", "pipe_layers", "ground", "emissivity",
+                      "supply_leakage_after", "return_leakage_after", "supply_r_after",
+                      "return_r_after")
+            if getattr(self, n) is not None
+        ]  # fmt: skip
+        if wrong:
+            raise ValueError(f"a window upgrade does not take {', '.join(wrong)}")
+        if self.surface is None or self.shgc is None or len(given) != 1:
+            raise ValueError(
+                "a window upgrade needs its window (surface), shgc and exactly one of u, r or "
+                "assembly"
+            )
+        if self.cost.per_length:
+            raise ValueError("a window upgrade is priced fixed + per_area, not per_length")
+        return self
+
+    @model_validator(mode="after")
     def _shape(self) -> UpgradeIn:
+        if self.kind == "window":
+            return self  # checked by _window
         assembly_given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
         sealing_given = [n for n in ("cfm50_after", "n50_after") if getattr(self, n) is not None]
+        leak_after = [
+            n for n in ("supply_leakage_after", "return_leakage_after") if getattr(self, n) is not None
+        ]
+        r_after = [n for n in ("supply_r_after", "return_r_after") if getattr(self, n) is not None]
+        duct_fields = {"duct_sealing": leak_after, "duct_insulation": r_after}
+        if self.kind is None and (leak_after or r_after) and not (leak_after and r_after):
+            self.kind = "duct_sealing" if leak_after else "duct_insulation"
+        if self.kind in duct_fields:
+            wrong = (
+                assembly_given
+                + sealing_given
+                + [n for n in ("surface", "pipe_layers", "ground", "emissivity") if getattr(self, n) is not None]
+                + [n for kind, names in duct_fields.items() if kind != self.kind for n in names]
+            )
+            if wrong:
+                raise ValueError(f"an upgrade of kind {self.kind} does not take {', '.join(wrong)}")
+            if not duct_fields[self.kind]:
+                after = "supply_leakage_after or return_leakage_after" if self.kind == "duct_sealing" else "supply_r_after or return_r_after"
+                raise ValueError(f"{self.kind.replace('_', ' ')} needs {after}")
+            if self.cost.per_length or (self.kind == "duct_sealing" and self.cost.per_area):
+                raise ValueError(
+                    "duct sealing is priced fixed; duct insulation fixed + per_area of the ducts"
+                )
+            return self
+        if leak_after or r_after:
+            raise ValueError(
+                "supply_/return_leakage_after belong to duct sealing and supply_/return_r_after "
+                "to duct insulation"
+            )
+        if self.emissivity is not None and self.kind not in (None, "pipe_insulation"):
+            raise ValueError("emissivity belongs to pipe insulation (the jacket)")
         if self.kind is None:
             if sealing_given:
                 self.kind = "air_sealing"
@@ -415,6 +615,65 @@ class OptimizeIn(Strict):
     )
 
 
+#: most Monte Carlo samples one request may ask for (a time bound, ~1 s on the load-test house)
+MAX_UNCERTAINTY_SAMPLES = 10_000
+#: a lognormal spread: σ of ln(multiplier), 0..1 (σ = 1 already spans a factor e each way)
+LogSpread = Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)]
+
+
+class UncertaintySpreadsIn(Strict):
+    """Spreads that replace the defaults (each omitted one keeps its default; 0 = no spread).
+
+    Lognormal spreads are σ of ln(multiplier), the multiplier's median 1."""
+
+    closed_assembly_u: LogSpread | None = Field(
+        default=None,
+        description="on the as-found U of closed assemblies (walls, floors, roofs, rim "
+        "joists, kneewalls, slabs, basement walls, other)",
+    )
+    open_assembly_u: LogSpread | None = Field(
+        default=None, description="on the as-found U of ceilings (an attic floor one can see)"
+    )
+    window_u: LogSpread | None = Field(
+        default=None, description="on the as-found U of windows and doors"
+    )
+    air_sealing: LogSpread | None = Field(
+        default=None, description="on the CFM50 reduction an air-sealing upgrade reaches"
+    )
+    heating_efficiency: LogSpread | None = Field(
+        default=None, description="on the heating system's efficiency"
+    )
+    weather: Annotated[float, Field(ge=0, le=0.5, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="coefficient of variation of a year's heating degree-days (normal)",
+    )
+    fuel_price: LogSpread | None = Field(default=None, description="on the heating fuel price")
+    fuel_escalation: Annotated[float, Field(ge=0, le=0.1, allow_inf_nan=False)] | None = Field(
+        default=None, description="standard deviation of the escalation rate, per year (normal)"
+    )
+
+
+class UncertaintyIn(Strict):
+    """Savings ranges by a seeded Monte Carlo: each package then has ``range``."""
+
+    samples: Annotated[int, Field(ge=0, le=MAX_UNCERTAINTY_SAMPLES)] = Field(
+        default=2000,
+        description=f"Monte Carlo samples, 0..{MAX_UNCERTAINTY_SAMPLES:,}; 0 = the point "
+        "figures as the range",
+    )
+    seed: Annotated[int, Field(ge=0, le=2**63 - 1)] = Field(
+        default=0, description="seed of the generator: the same seed gives the same figures"
+    )
+    spreads: UncertaintySpreadsIn = Field(default_factory=UncertaintySpreadsIn)
+    annual_hdd: list[Annotated[float, Field(gt=0, le=54000, allow_inf_nan=False)]] | None = Field(
+        default=None,
+        min_length=2,
+        max_length=200,
+        description="heating degree-days of separate past years (°F·day or K·day): the weather "
+        "spread is then their coefficient of variation (unless spreads.weather is given)",
+    )
+
+
 class HouseDocument(Strict):
     """The whole comparison as one document."""
 
@@ -425,9 +684,26 @@ class HouseDocument(Strict):
     heating: HeatingIn
     cooling: CoolingIn | None = None
     air_leakage: AirLeakageIn | None = None
+    mechanical_ventilation: MechanicalVentilationIn | None = Field(
+        default=None,
+        description="an HRV, ERV, exhaust or supply fan, running continuously (ASHRAE "
+        "Handbook—Fundamentals ch. 16 combination with infiltration)",
+    )
     surfaces: list[SurfaceIn] = Field(min_length=1, max_length=200)
     spaces: list[SpaceIn] = Field(
         default_factory=list, max_length=50, description="unconditioned spaces (ISO 13789)"
+    )
+    floor_area: Area | None = Field(
+        default=None, description="conditioned floor area, ft² or m² (internal gains default)"
+    )
+    bedrooms: Annotated[int, Field(ge=0, le=100)] | None = Field(
+        default=None, description="number of bedrooms (internal gains default)"
+    )
+    internal_gains: Annotated[float, Field(ge=0, le=1e7, allow_inf_nan=False)] | None = Field(
+        default=None,
+        description="average internal gains, Btu/h or W; omitted = ANSI/RESNET/ICC 301: "
+        "17,900 + 23.8 × floor area (ft²) + 4,104 × bedrooms Btu/day (from memory). Used with "
+        "a degree-day table (climate.variable_base) only",
     )
     upgrades: list[UpgradeIn] = Field(default_factory=list, max_length=300)
     packages: list[PackageIn] = Field(default_factory=list, max_length=50)
@@ -444,6 +720,11 @@ class HouseDocument(Strict):
         default=None,
         description="the best set of upgrades for a net-cost budget: the result then has best, "
         "frontier and optimization",
+    )
+    uncertainty: UncertaintyIn | None = Field(
+        default=None,
+        description="savings ranges by a seeded Monte Carlo: each package then has range, and "
+        "the result uncertainty",
     )
 
 
@@ -472,6 +753,12 @@ class SurfaceFigures(FiniteOut):
     b: float = Field(
         default=1.0, description="adjustment factor of what lies behind (1 outdoors); ua = b·U·A"
     )
+    shgc: float | None = Field(default=None, description="a window's SHGC in this variant")
+    solar_gain: float | None = Field(
+        default=None,
+        description="a window's solar gain over the heating days at this variant's balance "
+        "point (SHGC × area × irradiation on its plane), Btu or kWh; null without climate.solar",
+    )
 
 
 class SpaceFigures(FiniteOut):
@@ -499,6 +786,14 @@ class PipeFigures(FiniteOut):
     r_per_length: float
     heat_loss_per_length: float
     annual_loss: float
+    service: str | None = None
+    location: str | None = None
+    counted_loss: float | None = Field(
+        default=None, description="annual loss that counts (Btu or kWh), after where it runs"
+    )
+    water_heating_fuel: float | None = Field(
+        default=None, description="domestic hot water: water-heater fuel units per year"
+    )
 
 
 class HouseFigures(FiniteOut):
@@ -537,6 +832,35 @@ class HouseFigures(FiniteOut):
     capacity_ratio: float | None = Field(
         default=None, description="heating output capacity ÷ design heat loss"
     )
+    heating_degree_days: float | None = Field(
+        default=None, description="the heating degree-days used, °F·day or K·day"
+    )
+    balance_point: float | None = Field(
+        default=None,
+        description="°F or °C: setpoint − (internal + solar gains) / ua; null at the fixed base",
+    )
+    internal_gains: float | None = Field(
+        default=None, description="Btu/h or W in the balance point; null at the fixed base"
+    )
+    solar_gains: float | None = Field(
+        default=None,
+        description="the windows' solar gain averaged over the heating days at the balance "
+        "point, Btu/h or W; null at the fixed base",
+    )
+    ua_ventilation: float = Field(
+        default=0.0, description="what mechanical ventilation adds to ua, per degree"
+    )
+    n_factor: float | None = Field(default=None, description="the N-factor used")
+    n_factor_source: str | None = None
+    distribution: DistributionFigures | None = Field(
+        default=None, description="ducts (ASHRAE Standard 152); null without ducts"
+    )
+    heat_pump: HeatPumpFigures | None = Field(
+        default=None, description="a rated heat pump's season over the temperature bins"
+    )
+    water_heating_cost: float = Field(
+        default=0.0, description="domestic-hot-water pipe losses bought at the water heater"
+    )
 
 
 class StepFigures(FiniteOut):
@@ -555,6 +879,56 @@ class CashFlowFigures(FiniteOut):
     cumulative: list[float]
     cumulative_discounted: list[float]
     chart: Literal["cumulative_discounted"] = "cumulative_discounted"
+
+
+class Quantiles(FiniteOut):
+    """P10, P50 and P90 of one figure over the Monte Carlo samples (null: never, e.g. a
+    payback that does not come in that share of the samples, or an SIR without a cost)."""
+
+    p10: float | None
+    p50: float | None
+    p90: float | None
+
+
+class RangeFigures(FiniteOut):
+    """One package's figures over the uncertain inputs (``uncertainty.inputs``)."""
+
+    annual_savings: Quantiles
+    npv: Quantiles
+    simple_payback_years: Quantiles
+    sir: Quantiles
+    probability_pays_back: float = Field(
+        description="share of the samples whose cumulative discounted cash flow reaches zero "
+        "or more within the analysis years (NIST Handbook 135)"
+    )
+
+
+class UncertainInput(FiniteOut):
+    """One uncertain input: how it is drawn, its spread and where the spread comes from."""
+
+    name: str = Field(description="as in uncertainty.spreads")
+    distribution: Literal["lognormal", "normal"]
+    spread: float = Field(
+        description="lognormal: σ of ln(multiplier), median 1; normal: the standard deviation "
+        "(weather: coefficient of variation; fuel_escalation: per year)"
+    )
+    applies_to: str
+    source: str
+
+
+class UncertaintyFigures(FiniteOut):
+    """How the ranges were made."""
+
+    samples: int
+    seed: int
+    available: bool = Field(description="false: no ranges for this house (warnings say why)")
+    calibrated: bool = Field(
+        description="true: the heating savings are scaled by calibration.ratio, as the "
+        "calibrated figures are"
+    )
+    quantile_method: str
+    inputs: list[UncertainInput]
+    warnings: list[str] = []
 
 
 class OptionFigures(HouseFigures):
@@ -584,6 +958,11 @@ class OptionFigures(HouseFigures):
     warnings: list[str] = []
     calibrated: CalibratedFigures | None = Field(
         default=None, description="with bills: the money figures with heating savings × ratio"
+    )
+    range: RangeFigures | None = Field(
+        default=None,
+        description="with uncertainty: P10 / P50 / P90 of the money figures and the chance it "
+        "pays back (packages and best)",
     )
 
 
@@ -650,6 +1029,11 @@ class HouseResult(FiniteOut):
     analysis_years: int
     step_order: str
     assumptions: list[str]
+    degree_day_basis: str = Field(
+        default="",
+        description="how the heating degree-days were chosen: the fixed base, or the variable "
+        "base with the gains it counts",
+    )
     warnings: list[str] = []
     calibration: CalibrationFigures | None = Field(
         default=None, description="with bills: the as-found model against the bills"
@@ -666,4 +1050,7 @@ class HouseResult(FiniteOut):
     )
     optimization: OptimizationFigures | None = Field(
         default=None, description="with optimize: how best and frontier were found"
+    )
+    uncertainty: UncertaintyFigures | None = Field(
+        default=None, description="with uncertainty: the inputs, spreads and sources of range"
     )

@@ -589,6 +589,96 @@ def fit_bills(
     return best
 
 
+def fit_degree_days(
+    days: Sequence[float] | FloatArray,
+    use: Sequence[float] | FloatArray,
+    hdd_k_day: Sequence[float] | FloatArray,
+    base_c: float,
+) -> BillsFit:
+    """Fit baseload and heating slope to degree-days given per period, at a fixed base [1].
+
+    ``U_i/n_i = α + β HDD_i/n_i`` weighted by n_i, the closed-form weighted line of
+    :func:`weighted_line`, with ``HDD_i`` the degree-days of each period at the stated base
+    τ (typed from a bill or a weather service, so τ cannot be searched). The base is then no
+    parameter of the fit: ``p = 2`` (α, β) in CV(RMSE) and NMBE [2], ``base_searched`` is
+    False. The slope's standard error is ``sqrt(S / (P − 2) / S_xx)``.
+
+    Limiting cases as :func:`fit_bills`: one period, or a slope β ≤ 0 (no heating signal),
+    gives the baseload alone (α = ΣU / Σn, ``model="baseload"``, p = 1).
+
+    Parameters
+    ----------
+    days : sequence of float
+        n_i, days of each period [day], each at least 1.
+    use : sequence of float
+        U_i, metered use of each period [fuel unit], zero or more.
+    hdd_k_day : sequence of float
+        HDD_i(τ), heating degree-days of each period at the base [K·day], zero or more.
+    base_c : float
+        τ, the base the degree-days were counted at [°C].
+
+    Raises
+    ------
+    ValueError
+        No periods, sequences of different lengths, a period of less than one day, a use or
+        degree-day figure that is negative or not finite, or a base that is not finite.
+    """
+    n = np.asarray(days, dtype=float)
+    u = np.asarray(use, dtype=float)
+    hdd = np.asarray(hdd_k_day, dtype=float)
+    if n.size == 0:
+        raise ValueError("there are no periods to fit")
+    if not (n.shape == u.shape == hdd.shape and n.ndim == 1):
+        raise ValueError("give days, use and degree-days for every period")
+    if not math.isfinite(base_c):
+        raise ValueError("the base temperature must be a finite number")
+    if not (np.isfinite(n).all() and (n >= 1).all()):
+        raise ValueError("every period needs at least one day")
+    if not (np.isfinite(u).all() and (u >= 0).all()):
+        raise ValueError("every period's use must be a finite number, zero or more")
+    if not (np.isfinite(hdd).all() and (hdd >= 0).all()):
+        raise ValueError("every period's degree-days must be a finite number, zero or more")
+    y = u / n
+    total = float(n.sum())
+    ybar = float(u.sum()) / total
+    syy = float(n @ (y - ybar) ** 2)
+    alpha, beta, sse, sxx = (ybar, 0.0, syy, 0.0)
+    if n.size > 1:
+        alpha, beta, sse, sxx = weighted_line(hdd / n, y, n)
+    heating = n.size > 1 and beta > 0.0
+    if not heating:
+        alpha, beta, sse = ybar, 0.0, syy
+    parameters = 2 if heating else 1
+    predicted = n * alpha + beta * hdd
+    cv, nmbe = guideline14_statistics(u, predicted, parameters)
+    count = int(n.size)
+    std_error = None
+    if heating and count > 2 and sxx > 0.0:
+        std_error = math.sqrt(max(sse, 0.0) / (count - 2) / sxx)
+    return BillsFit(
+        model="heating" if heating else "baseload",
+        base_c=float(base_c) if heating else None,
+        base_searched=False,
+        base_at_limit=False,
+        baseload_per_day=alpha,
+        heating_slope=beta,
+        heating_slope_std_error=std_error,
+        cooling_base_c=None,
+        cooling_slope=None,
+        cooling_slope_std_error=None,
+        cooling_base_at_limit=False,
+        parameters=parameters,
+        r_squared=None if count < 2 or syy <= 0 else 1.0 - sse / syy,
+        cv_rmse=cv,
+        nmbe=nmbe,
+        days=tuple(float(v) for v in n),
+        use=tuple(float(v) for v in u),
+        hdd=tuple(float(v) for v in hdd) if heating else tuple(0.0 for _ in n),
+        cdd=tuple(0.0 for _ in n),
+        predicted=tuple(float(v) for v in predicted),
+    )
+
+
 def normalize(fit: BillsFit, normal_daily_c: Sequence[float] | FloatArray) -> Normalized:
     """Use of a typical year from the fit [1].
 

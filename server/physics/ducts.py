@@ -242,9 +242,7 @@ def distribution(
     supply_loss = (1 - a_s) + a_s * (1 - cond_s) * (1 + dt_s / dt_e)
     return_loss = a_s * cond_s * (1 - a_r * cond_r) * dt_r / dt_e
     loss = supply_loss + return_loss  # = 1 − DE
-    regain = (
-        (supply_loss * (1 - b_sup) + return_loss * (1 - b_ret)) / loss if loss > 0 else 1.0
-    )
+    regain = (supply_loss * (1 - b_sup) + return_loss * (1 - b_ret)) / loss if loss > 0 else 1.0
     efficiency = system.equipment_factor * (de + regain * (1 - de))
     return Distribution(
         delivery_effectiveness=de,

@@ -162,17 +162,25 @@ def cop(rating: HeatPumpRating, curves: Curves, outdoor_c: float) -> float:
 
 def check_rating(rating: HeatPumpRating, curves: Curves) -> None:
     """Refuse a rating the bins cannot use (non-positive figures, a COP that turns ≤ 0)."""
-    for value, name in ((rating.capacity_47_w, "the capacity at 47 °F"), (rating.cop_47, "the COP at 47 °F")):
+    for value, name in (
+        (rating.capacity_47_w, "the capacity at 47 °F"),
+        (rating.cop_47, "the COP at 47 °F"),
+    ):
         if not (math.isfinite(value) and value > 0):
             raise ValueError(f"{name} must be greater than zero")
-    for maybe, name in ((rating.capacity_17_w, "the capacity at 17 °F"), (rating.cop_17, "the COP at 17 °F")):
+    for maybe, name in (
+        (rating.capacity_17_w, "the capacity at 17 °F"),
+        (rating.cop_17, "the COP at 17 °F"),
+    ):
         if maybe is not None and not (math.isfinite(maybe) and maybe > 0):
             raise ValueError(f"{name} must be greater than zero")
     if not (math.isfinite(rating.backup_efficiency) and 0 < rating.backup_efficiency <= 1):
         raise ValueError("the backup efficiency must be above 0 and at most 1")
     for t in (curves.eir.x_min, curves.eir.x_max, -40.0, 30.0):
         if not cop(rating, curves, t) > 0:
-            raise ValueError("the 17 °F rating makes the COP fall to zero within the weather's range")
+            raise ValueError(
+                "the 17 °F rating makes the COP fall to zero within the weather's range"
+            )
 
 
 def season(
@@ -259,7 +267,9 @@ def balance_point_c(
         return None
 
     def surplus(t: float) -> float:
-        return capacity_w(rating, curves, t) - ua_w_per_k * (balance_c - t) / distribution_efficiency
+        return (
+            capacity_w(rating, curves, t) - ua_w_per_k * (balance_c - t) / distribution_efficiency
+        )
 
     low, high = -60.0, balance_c
     if surplus(low) >= 0:
@@ -273,7 +283,9 @@ def balance_point_c(
     return 0.5 * (low + high)
 
 
-def bins_from_hourly(temperatures_c: Sequence[float], width_k: float = 1.0) -> list[tuple[float, float]]:
+def bins_from_hourly(
+    temperatures_c: Sequence[float], width_k: float = 1.0
+) -> list[tuple[float, float]]:
     """Hours per temperature bin [(centre °C, hours)] of an hourly dry-bulb series.
 
     Bin k holds the hours with ``centre − width/2 ≤ t < centre + width/2``, centres at whole

@@ -29,7 +29,8 @@ from dataclasses import dataclass, field, replace
 from server.physics import buffer_spaces as buffers
 from server.physics import degree_days as dd
 from server.physics import economics as money
-from server.physics import energy
+from server.physics import energy, gains, pipe_runs
+from server.physics import systems as sysm
 from server.physics.fuels import GRID_ELECTRICITY_CO2_KG_PER_KWH, KWH_J, Fuel
 
 
@@ -46,17 +47,33 @@ class Surface:
     area_m2: float
     u_si: float
     adjacent: str = buffers.OUTDOORS
+    #: a window's solar heat gain coefficient [-] (0: no solar gain counted)
+    shgc: float = 0.0
+    #: mean irradiance on its plane over the heating days at each base of the climate's
+    #: variable-base table [W/m²] (empty: no solar gain counted; see :mod:`.gains`)
+    solar_w_per_m2: tuple[float, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
 class PipeRunLoss:
-    """A pipe run: length [m], per-length resistance [m·K/W], fluid − ambient ΔT [K], hours/yr."""
+    """A pipe run: length [m], per-length resistance [m·K/W], fluid − ambient ΔT [K], hours/yr.
+
+    ``service`` (heating_water, domestic_hot_water or None), ``location`` (conditioned,
+    unconditioned, a space id or None), ``heating_season_share`` [-] (None: from the bins or
+    7/12) and ``water_heater`` (domestic hot water) decide what share of the loss counts and
+    who buys it (see :mod:`.pipe_runs`); ``emissivity`` [-] of its outer surface (for the
+    record: ``r_per_length_si`` already holds its radiation term).
+    """
 
     id: str
     length_m: float
     r_per_length_si: float
     delta_t_k: float
     hours_per_year: float
+    service: str | None = None
+    location: str | None = None
+    heating_season_share: float | None = None
+    water_heater: pipe_runs.WaterHeater | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -91,15 +108,32 @@ class Climate:
     cdd_k_day: float = 0.0
     variable_base: VariableBase | None = None
 
-    def heating_degree_days(self, ua_w_per_k: float) -> float:
-        """HDD [K·day] for a house of total UA [W/K]: fixed, or at its balance point."""
+    def heating_degree_days(
+        self, ua_w_per_k: float, solar: Sequence[gains.SolarTerm] = ()
+    ) -> float:
+        """HDD [K·day] for a house of total UA [W/K]: fixed, or at its balance point.
+
+        ``solar`` holds the windows' solar terms (SHGC·A [m²], plane irradiance by base
+        [W/m²]) that join the internal gains in the balance point (see :mod:`.gains`).
+        """
+        balance_c = self.balance_point_c(ua_w_per_k, solar)
+        if balance_c is None:
+            return self.hdd_k_day
+        vb = self.variable_base
+        assert vb is not None
+        return dd.interpolate_degree_days(vb.bases_c, vb.hdd_k_day, balance_c)
+
+    def balance_point_c(
+        self, ua_w_per_k: float, solar: Sequence[gains.SolarTerm] = ()
+    ) -> float | None:
+        """Balance point [°C] with the variable base, held within its table; else None."""
         vb = self.variable_base
         if vb is None or ua_w_per_k <= 0:
-            return self.hdd_k_day
-        balance_c = dd.balance_point_temperature_c(vb.setpoint_c, vb.internal_gains_w, ua_w_per_k)
+            return None
         # a balance point beyond the table takes the table's end value (stated in the docs)
-        balance_c = min(max(balance_c, vb.bases_c[0]), vb.bases_c[-1])
-        return dd.interpolate_degree_days(vb.bases_c, vb.hdd_k_day, balance_c)
+        return gains.balance_point_c(
+            vb.setpoint_c, vb.internal_gains_w, ua_w_per_k, vb.bases_c, solar
+        )
 
 
 @dataclass(frozen=True, slots=True)
@@ -149,11 +183,16 @@ class House:
     pipe_runs: tuple[PipeRunLoss, ...] = ()
     electricity_co2_kg_per_kwh: float = GRID_ELECTRICITY_CO2_KG_PER_KWH
     spaces: tuple[buffers.BufferSpace, ...] = ()
+    #: ducts, heat pump by bins, ventilation, altitude (None: none of them, see :mod:`.systems`)
+    systems: sysm.Systems | None = None
 
 
 @dataclass(frozen=True, slots=True)
 class AssemblyUpgrade:
-    """A new assembly on one surface: its U-factor [W/(m²·K)]; money in the caller's currency."""
+    """A new assembly on one surface: its U-factor [W/(m²·K)]; money in the caller's currency.
+
+    ``shgc`` [-] is a window upgrade's new solar heat gain coefficient (None: unchanged).
+    """
 
     id: str
     surface_id: str
@@ -161,6 +200,7 @@ class AssemblyUpgrade:
     installed_cost: float = 0.0
     rebate: float = 0.0
     life_years: float | None = None
+    shgc: float | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -186,7 +226,13 @@ class PipeInsulationUpgrade:
     life_years: float | None = None
 
 
-Upgrade = AssemblyUpgrade | AirSealingUpgrade | PipeInsulationUpgrade
+Upgrade = (
+    AssemblyUpgrade
+    | AirSealingUpgrade
+    | PipeInsulationUpgrade
+    | sysm.DuctSealingUpgrade
+    | sysm.DuctInsulationUpgrade
+)
 
 
 @dataclass(frozen=True, slots=True)
@@ -198,7 +244,12 @@ class Package:
 
 
 def upgrade_target(upgrade: Upgrade) -> str:
-    """What an upgrade changes: ``surface:<id>``, ``air`` or ``pipe:<id>`` (one per package)."""
+    """What an upgrade changes: ``surface:<id>``, ``air``, ``pipe:<id>``, ``ducts:leakage`` or
+    ``ducts:insulation`` (one per package)."""
+    if isinstance(upgrade, sysm.DuctSealingUpgrade):
+        return "ducts:leakage"
+    if isinstance(upgrade, sysm.DuctInsulationUpgrade):
+        return "ducts:insulation"
     if isinstance(upgrade, AssemblyUpgrade):
         return f"surface:{upgrade.surface_id}"
     if isinstance(upgrade, PipeInsulationUpgrade):
@@ -241,13 +292,23 @@ def apply_upgrades(house: House, upgrades: Sequence[Upgrade]) -> House:
     surfaces = {s.id: s for s in house.surfaces}
     pipes = {p.id: p for p in house.pipe_runs}
     leakage = house.air_leakage
+    systems = house.systems
     for upgrade in upgrades:
-        if isinstance(upgrade, AssemblyUpgrade):
+        if isinstance(upgrade, sysm.DuctSealingUpgrade | sysm.DuctInsulationUpgrade):
+            if systems is None:
+                raise ValueError(f"upgrade '{upgrade.id}': the house has no ducts described")
+            systems = sysm.apply_duct_upgrade(systems, upgrade)
+        elif isinstance(upgrade, AssemblyUpgrade):
             if upgrade.surface_id not in surfaces:
                 raise ValueError(
                     f"upgrade '{upgrade.id}': there is no surface '{upgrade.surface_id}'"
                 )
-            surfaces[upgrade.surface_id] = replace(surfaces[upgrade.surface_id], u_si=upgrade.u_si)
+            found = surfaces[upgrade.surface_id]
+            surfaces[upgrade.surface_id] = replace(
+                found,
+                u_si=upgrade.u_si,
+                shgc=found.shgc if upgrade.shgc is None else upgrade.shgc,
+            )
         elif isinstance(upgrade, PipeInsulationUpgrade):
             if upgrade.pipe_id not in pipes:
                 raise ValueError(
@@ -269,6 +330,7 @@ def apply_upgrades(house: House, upgrades: Sequence[Upgrade]) -> House:
         surfaces=tuple(surfaces.values()),
         pipe_runs=tuple(pipes.values()),
         air_leakage=leakage,
+        systems=systems,
     )
 
 
@@ -296,6 +358,20 @@ class HouseEnergy:
     spaces: Mapping[str, buffers.SpaceFactors] = field(default_factory=dict)
     #: biogenic CO2 of wood heating [kg/year], apart from the fossil ``co2_kg``
     co2_biogenic_kg: float = 0.0
+    #: what mechanical ventilation adds to the infiltration's UA [W/K] (in ``ua_w_per_k``)
+    ventilation_ua_w_per_k: float = 0.0
+    #: ducts, equipment, heat-pump season of this variant (None: no systems given)
+    systems: sysm.SystemFigures | None = None
+    #: each pipe run's loss that counts [J] (see :mod:`.pipe_runs`) and domestic hot water
+    pipe_counted_by_run_j: Mapping[str, float] = field(default_factory=dict)
+    water_heating_fuel_by_run: Mapping[str, float] = field(default_factory=dict)
+    water_heating_cost: float = 0.0
+    water_heating_co2_kg: float = 0.0
+    #: heating degree-days used [K·day] and the balance point [°C] (None: the fixed base)
+    hdd_k_day: float = 0.0
+    balance_point_c: float | None = None
+    #: each window's solar gain averaged over the heating days at the balance point [W]
+    solar_gain_by_surface_w: Mapping[str, float] = field(default_factory=dict)
 
 
 def _buffered(
@@ -346,8 +422,11 @@ def evaluate(house: House) -> HouseEnergy:
         if leak is None
         else energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3)
     )
-    ua = envelope + infiltration
-    heating_load = energy.degree_day_load(ua, house.climate.heating_degree_days(ua))
+    infiltration, ventilation = sysm.air(house.systems, infiltration)
+    ua = envelope + infiltration + ventilation
+    solar = solar_terms(house)
+    hdd = house.climate.heating_degree_days(ua, solar)
+    heating_load = energy.degree_day_load(ua, hdd)
     pipes = {
         run.id: energy.pipe_annual_loss(
             run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year
@@ -356,9 +435,36 @@ def evaluate(house: House) -> HouseEnergy:
     }
     pipe_total = sum(pipes.values())
     heating = house.heating
-    fuel = energy.fuel_use(
-        heating_load + pipe_total, heating.efficiency, heating.fuel.energy_per_unit_j
+    space_b = {key: factors.b for key, factors in spaces.items()}
+    balance_c = _balance_c(house, ua, solar)
+    counted, water = _pipe_use(house, pipes, space_b, balance_c)
+    figures = (
+        None
+        if house.systems is None
+        else sysm.evaluate_systems(
+            house.systems,
+            ua_w_per_k=ua,
+            infiltration_ua_w_per_k=infiltration,
+            ventilation_ua_w_per_k=ventilation,
+            hdd_k_day=hdd,
+            balance_c=balance_c if balance_c is not None else house.systems.heating_base_c,
+            space_b=space_b,
+            efficiency=heating.efficiency,
+        )
     )
+    if figures is None and not water and counted == pipes:
+        fuel = energy.fuel_use(
+            heating_load + pipe_total, heating.efficiency, heating.fuel.energy_per_unit_j
+        )
+    else:  # Q_fuel = (Q_load / η_dist + Q_pipes,heating) / η_equipment (see :mod:`.systems`)
+        duct = None if figures is None else figures.distribution
+        eta_dist = 1.0 if duct is None else duct.efficiency
+        eta = heating.efficiency if figures is None else figures.equipment_efficiency
+        heating_pipes = sum(v for k, v in counted.items() if k not in water)
+        fuel = energy.fuel_use(
+            heating_load / max(eta_dist, 1e-9) + heating_pipes, eta, heating.fuel.energy_per_unit_j
+        )
+    water_fuel, water_cost, water_co2 = _water_heating(house, counted, water)
     heating_co2 = fuel * heating_co2_per_unit(house)
     # wood's CO2 is biogenic: reported apart from the fossil total (GHG inventory practice)
     biogenic_co2 = heating_co2 if heating.fuel.biogenic else 0.0
@@ -390,13 +496,108 @@ def evaluate(house: House) -> HouseEnergy:
         cooling_load_j=cooling_load,
         cooling_electricity_kwh=cooling_kwh,
         cooling_cost=cooling_cost,
-        total_cost=heating_cost + cooling_cost,
+        total_cost=heating_cost + cooling_cost + water_cost,
         heating_co2_kg=heating_co2,
         cooling_co2_kg=cooling_co2,
-        co2_kg=heating_co2 + cooling_co2,
+        co2_kg=heating_co2 + cooling_co2 + water_co2,
         spaces=spaces,
         co2_biogenic_kg=biogenic_co2,
+        ventilation_ua_w_per_k=ventilation,
+        systems=figures,
+        pipe_counted_by_run_j=counted,
+        water_heating_fuel_by_run=water_fuel,
+        water_heating_cost=water_cost,
+        water_heating_co2_kg=water_co2,
+        hdd_k_day=hdd,
+        balance_point_c=house.climate.balance_point_c(ua, solar),
+        solar_gain_by_surface_w=_solar_gains(house, ua, solar),
     )
+
+
+def _solar_gains(
+    house: House, ua_w_per_k: float, solar: Sequence[gains.SolarTerm]
+) -> dict[str, float]:
+    """Each window's SHGC·A·Ē(t_bal) [W] at this variant's balance point."""
+    vb = house.climate.variable_base
+    balance = house.climate.balance_point_c(ua_w_per_k, solar)
+    if vb is None or balance is None or not solar:
+        return {}
+    return {
+        s.id: gains.solar_gain_w(vb.bases_c, [(s.shgc * s.area_m2, s.solar_w_per_m2)], balance)
+        for s in house.surfaces
+        if s.shgc > 0 and s.solar_w_per_m2
+    }
+
+
+def _balance_c(
+    house: House, ua_w_per_k: float, solar: Sequence[gains.SolarTerm] = ()
+) -> float | None:
+    """Balance-point temperature of this variant [°C]: the variable base's (with the
+    windows' solar terms), else the systems' heating base, else None (neither known)."""
+    balance = house.climate.balance_point_c(ua_w_per_k, solar)
+    if balance is not None:
+        return balance
+    return None if house.systems is None else house.systems.heating_base_c
+
+
+def solar_terms(house: House) -> tuple[gains.SolarTerm, ...]:
+    """Each window's (SHGC·A [m²], plane irradiance by base [W/m²]) when the house has a
+    variable base; empty otherwise (see :mod:`.gains`)."""
+    if house.climate.variable_base is None:
+        return ()
+    return tuple(
+        (s.shgc * s.area_m2, s.solar_w_per_m2)
+        for s in house.surfaces
+        if s.shgc > 0 and s.solar_w_per_m2
+    )
+
+
+def _pipe_use(
+    house: House, losses: Mapping[str, float], space_b: Mapping[str, float], balance_c: float | None
+) -> tuple[dict[str, float], set[str]]:
+    """Each run's counted loss [J] (see :mod:`.pipe_runs`) and the runs a water heater buys."""
+    counted: dict[str, float] = {}
+    water: set[str] = set()
+    for run in house.pipe_runs:
+        if run.location is None:
+            b = None
+        elif run.location == "conditioned":
+            b = 0.0
+        elif run.location == "unconditioned":
+            b = 1.0
+        else:
+            b = space_b.get(run.location, 1.0)
+        share = run.heating_season_share
+        if share is None:
+            share = sysm.heating_season_share(house.systems, balance_c)
+        counted[run.id] = losses[run.id] * pipe_runs.counted_share(run.service, b, share)
+        if run.service == pipe_runs.DOMESTIC_HOT_WATER and run.water_heater is not None:
+            water.add(run.id)
+    return counted, water
+
+
+def _water_heating(
+    house: House, counted: Mapping[str, float], water: set[str]
+) -> tuple[dict[str, float], float, float]:
+    """Fuel [units] per domestic-hot-water run, their cost and fossil CO2 [kg]."""
+    fuel: dict[str, float] = {}
+    cost = co2 = 0.0
+    for run in house.pipe_runs:
+        heater = run.water_heater
+        if run.id not in water or heater is None:
+            continue
+        units = energy.fuel_use(counted[run.id], heater.efficiency, heater.fuel.energy_per_unit_j)
+        fuel[run.id] = units
+        cost += units * heater.price_per_unit
+        if heater.co2_kg_per_unit is not None:
+            factor = heater.co2_kg_per_unit
+        elif heater.fuel.co2_kg_per_unit is not None:
+            factor = heater.fuel.co2_kg_per_unit
+        else:
+            factor = house.electricity_co2_kg_per_kwh * heater.fuel.energy_per_unit_j / KWH_J
+        if not heater.fuel.biogenic:
+            co2 += units * factor
+    return fuel, cost, co2
 
 
 @dataclass(frozen=True, slots=True)

@@ -50,8 +50,15 @@ After solving, the chosen set is re-evaluated by the array core, so every figure
 Among sets of equal objective the cheapest is taken (a second MILP minimising C with the
 objective held at the optimum, to 1e-9 of its spread).
 
-Frontier (ε-constraint [5]): solve with B = ∞, then with B = that set's net cost − δ
-(δ = 1e-7 · max(1, |C|): points closer than that in net cost are one), and so on until no set
+Frontier. When the objective depends on a set only through sums over groups (fixed base, or
+a variable base with no pipe options: net cost and UA), the whole frontier is built exactly by
+merging the groups' options one group at a time and keeping only the partial sets no other
+beats [6]: an ε-constraint MILP costs 0.01-1.3 s a point on a 40-surface house, too slow for
+200 points in a request. Otherwise (ε-constraint [5]): solve with B = ∞, then with B = that set's net cost − δ
+(δ = max(1e-7 · max(1, |C|), 2e-6 of the cost spread): points closer than that in net cost
+are one, since HiGHS takes x within 1e-6 of integral and a nearly integral point could seem
+cheaper by that much; a set over the budget by such a point is caught on re-evaluation and the
+budget tightened by the same step), and so on until no set
 is left; a point whose objective ties the previous one replaces it (the previous was beaten on
 cost). Every point found is Pareto-optimal: no set has lower-or-equal net cost and higher
 objective. The count is capped (:data:`FRONTIER_LIMIT`), with a warning.
@@ -69,6 +76,9 @@ References
     convex combination model; from memory).
 [5] V. Chankong and Y. Y. Haimes, Multiobjective Decision Making: Theory and Methodology,
     North-Holland (1983), the ε-constraint method (from memory).
+[6] G. L. Nemhauser and Z. Ullmann, "Discrete dynamic programming and capital allocation",
+    Management Science 15 (1969) 494-505 (merging the Pareto sets of independent choices;
+    from memory).
 """
 
 from __future__ import annotations
@@ -84,7 +94,7 @@ from server.physics import energy
 from server.physics import house_model as model
 from server.physics.fuels import KWH_J
 from server.physics.units import BTU_J, HOUR_S
-from server.physics.variants import FloatArray, Figures, IntArray, Variants
+from server.physics.variants import Figures, FloatArray, IntArray, Variants
 
 OBJECTIVES = ("npv", "annual_savings", "co2")
 #: most sets evaluated one by one when the MILP's assumptions fail
@@ -93,6 +103,10 @@ MAX_ENUMERATION = 100_000
 FRONTIER_LIMIT = 200
 #: relative tolerance of the budget and of ties [-]
 TOLERANCE = 1e-9
+#: net costs closer than this share of the cost spread (Σ over groups of the largest minus
+#: the smallest option's net cost) are not told apart by the MILP: HiGHS accepts x within 1e-6
+#: of integral, so a nearly integral point can seem up to 1e-6 of the spread cheaper [2]
+RESOLUTION = 2e-6
 METHOD_WORDS = {
     "milp": "mixed-integer linear programme (HiGHS), exact: the optimum is proven",
     "milp_piecewise": "mixed-integer linear programme with the heating load modelled piece by "
@@ -182,7 +196,12 @@ def load_pieces(climate: model.Climate, ua_low: float, ua_high: float) -> list[P
     for i in range(len(bases) - 1):
         slope_t = (hdd[i + 1] - hdd[i]) / (bases[i + 1] - bases[i])
         pieces.append(
-            Piece(at(bases[i]), at(bases[i + 1]), hdd[i] + slope_t * (setpoint - bases[i]), -slope_t * gains)
+            Piece(
+                at(bases[i]),
+                at(bases[i + 1]),
+                hdd[i] + slope_t * (setpoint - bases[i]),
+                -slope_t * gains,
+            )
         )
     pieces.append(Piece(at(bases[-1]), math.inf, hdd[-1], 0.0))
     kept = [
@@ -228,11 +247,20 @@ def _coefficients(variants: Variants, objective: str) -> tuple[float, float, flo
     cool_kwh_per_ua = 0.0
     if house.cooling is not None:
         cooling = house.cooling
-        per_j = (1.0 / BTU_J / cooling.seer * HOUR_S) if cooling.seer is not None else 1.0 / (cooling.cop or 1.0)
+        per_j = (
+            (1.0 / BTU_J / cooling.seer * HOUR_S)
+            if cooling.seer is not None
+            else 1.0 / (cooling.cop or 1.0)
+        )
         cool_kwh_per_ua = house.climate.cdd_k_day * energy.DAY_S * per_j / KWH_J
     if objective == "co2":
         heating_factor = 0.0 if heating.fuel.biogenic else model.heating_co2_per_unit(house)
-        return per_j_fuel * heating_factor, cool_kwh_per_ua * house.electricity_co2_kg_per_kwh, 0.0, 0.0
+        return (
+            per_j_fuel * heating_factor,
+            cool_kwh_per_ua * house.electricity_co2_kg_per_kwh,
+            0.0,
+            0.0,
+        )
     price_e = 0.0 if house.cooling is None else house.cooling.electricity_price_per_kwh
     k_j = per_j_fuel * heating.price_per_unit
     k_u = cool_kwh_per_ua * price_e
@@ -312,7 +340,9 @@ class _Solver:
             return n, n, 1
         return n, n, 2 * len(self.model.pieces)
 
-    def _rows(self, budget: float, held: float | None, scale: float) -> tuple[FloatArray, list[LinearConstraint], FloatArray, Bounds, FloatArray]:
+    def _rows(
+        self, budget: float, held: float | None, scale: float
+    ) -> tuple[FloatArray, list[LinearConstraint], FloatArray, Bounds, FloatArray]:
         m = self.model
         n, first, extra = self._layout()
         total = n + extra
@@ -383,7 +413,13 @@ class _Solver:
             constraints.append(LinearConstraint(c[None, :], -np.inf, held - const))
         return c, constraints, integrality, Bounds(lower, upper), np.array([const])
 
-    def _run(self, c: FloatArray, constraints: list[LinearConstraint], integrality: FloatArray, bounds: Bounds) -> FloatArray | None:
+    def _run(
+        self,
+        c: FloatArray,
+        constraints: list[LinearConstraint],
+        integrality: FloatArray,
+        bounds: Bounds,
+    ) -> FloatArray | None:
         self.solves += 1
         result = milp(
             c,
@@ -410,12 +446,16 @@ class _Solver:
         spread = 0.0
         for g, start in enumerate(m.starts):
             size = len(self.variants.groups[g].options)
-            part = m.cost_x[start : start + size] + m.k_load * max(p.slope for p in m.pieces) * m.ua_x[start : start + size]
+            part = (
+                m.cost_x[start : start + size]
+                + m.k_load * max(p.slope for p in m.pieces) * m.ua_x[start : start + size]
+            )
             spread += float(part.max() - part.min())
         return 1e6 / spread if spread > 0 else 1.0
 
-    def best(self, budget: float) -> IntArray | None:
-        """The selection of highest objective with net cost ≤ budget, cheapest among ties."""
+    def best(self, budget: float) -> tuple[IntArray, IntArray | None] | None:
+        """The selection of highest objective with net cost ≤ budget, and the cheapest
+        selection of (about) that objective, to be checked by the caller."""
         scale = self.scale()
         c, cons, integrality, bounds, const = self._rows(budget, None, scale)
         x = self._run(c, cons, integrality, bounds)
@@ -427,7 +467,7 @@ class _Solver:
         cost = np.zeros_like(c2)
         cost[: self.model.net_x.size] = self.model.net_x
         x2 = self._run(cost, cons2, integrality2, bounds2)
-        return self._selection(x if x2 is None else x2)
+        return self._selection(x), None if x2 is None else self._selection(x2)
 
 
 def _candidate(variants: Variants, row: IntArray, objective: str) -> Candidate:
@@ -472,12 +512,18 @@ def pareto(costs: FloatArray, values: FloatArray) -> list[int]:
     return kept
 
 
-def _enumerate(variants: Variants, budget: float, objective: str, limit: int) -> tuple[Candidate, list[Candidate], bool]:
+def _enumerate(
+    variants: Variants, budget: float, objective: str, limit: int
+) -> tuple[Candidate, list[Candidate], bool]:
     rows = variants.all_selections()
     figures = variants.evaluate(rows)
     values = objective_values(figures, objective)
     costs = figures.net_cost
-    allowed = costs <= budget + TOLERANCE * max(1.0, abs(budget)) if math.isfinite(budget) else np.ones(costs.size, bool)
+    allowed = (
+        costs <= budget + TOLERANCE * max(1.0, abs(budget))
+        if math.isfinite(budget)
+        else np.ones(costs.size, bool)
+    )
     spread = float(values.max() - values.min())
     tie = TOLERANCE * max(1.0, spread)
     top = float(values[allowed].max())
@@ -535,25 +581,52 @@ def best_package(
     if method == "enumeration" or (
         method == "auto" and (m.relaxed or not convex) and sets <= MAX_ENUMERATION
     ):
-        best, front, capped = _enumerate(variants, budget, objective, frontier_limit)
+        best, listed, capped = _enumerate(variants, budget, objective, frontier_limit)
         if capped:
             warnings.append(_capped_words(frontier_limit))
-        return Optimum(objective, budget, best, tuple(front), True, "enumeration", None, sets, capped, tuple(warnings))
+        return Optimum(
+            objective,
+            budget,
+            best,
+            tuple(listed),
+            True,
+            "enumeration",
+            None,
+            sets,
+            capped,
+            tuple(warnings),
+        )
     solver = _Solver(variants, m, piecewise=not convex)
     name = "milp_bound" if m.relaxed else ("milp" if convex else "milp_piecewise")
     empty = _candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
 
+    cost_spread = sum(
+        float(np.ptp(variants.installed[g] - variants.rebate[g]))
+        for g in range(len(variants.groups))
+    )
+
     def solve(limit_budget: float) -> Candidate | None:
         bound = limit_budget
-        for _attempt in range(4):
-            row = solver.best(bound)
-            if row is None:
+        for attempt in range(12):
+            rows = solver.best(bound)
+            if rows is None:
                 return None
-            found = _candidate(variants, row, objective)
-            if not math.isfinite(limit_budget) or _within(found.net_cost, limit_budget):
-                return found
-            # the solver's feasibility tolerance let a set over the budget: tighten and retry
-            bound -= (found.net_cost - limit_budget) + TOLERANCE * max(1.0, abs(limit_budget))
+            found = _candidate(variants, rows[0], objective)
+            if math.isfinite(limit_budget) and not _within(found.net_cost, limit_budget):
+                # HiGHS's integrality tolerance (1e-6) let a nearly integral point over the
+                # budget: tighten by the excess and a growing share of the cost spread, retry
+                bound -= (found.net_cost - bound) + RESOLUTION * max(1.0, cost_spread) * 2**attempt
+                continue
+            if rows[1] is not None:  # the cheapest of that objective, when it checks out
+                cheaper = _candidate(variants, rows[1], objective)
+                tie = TOLERANCE * max(1.0, abs(found.objective_value))
+                if (
+                    cheaper.net_cost <= found.net_cost
+                    and (not math.isfinite(limit_budget) or _within(cheaper.net_cost, limit_budget))
+                    and cheaper.objective_value >= found.objective_value - tie
+                ):
+                    found = cheaper
+            return found
         return None
 
     best = solve(budget) or empty
@@ -573,9 +646,17 @@ def best_package(
         )
     front: list[Candidate] = []
     capped = False
-    if frontier_limit > 0:
+    mergeable = not m.relaxed and (
+        len(m.pieces) == 1 or all(float(np.ptp(p)) == 0.0 for p in variants.pipe)
+    )
+    if frontier_limit > 0 and mergeable:
+        front, capped = _merged_frontier(variants, m, objective, frontier_limit, best)
+        if capped:
+            warnings.append(_spread_words(frontier_limit))
+    elif frontier_limit > 0:
         low_cost = sum(
-            float((variants.installed[g] - variants.rebate[g]).min()) for g in range(len(variants.groups))
+            float((variants.installed[g] - variants.rebate[g]).min())
+            for g in range(len(variants.groups))
         )
         limit_budget = math.inf
         spread_tie = TOLERANCE * max(1.0, abs(best.objective_value))
@@ -590,7 +671,8 @@ def best_package(
                     capped = True
                     break
                 front.append(found)
-            limit_budget = found.net_cost - _step(found.net_cost)
+            # a step beyond what the integrality tolerance lets a near-integral point gain
+            limit_budget = found.net_cost - max(_step(found.net_cost), RESOLUTION * cost_spread)
             if limit_budget < low_cost - _step(low_cost):
                 break
         front.reverse()
@@ -600,13 +682,87 @@ def best_package(
             front = [front[i] for i in pareto(costs, values)] if front else []
         if capped:
             warnings.append(_capped_words(frontier_limit))
-    return Optimum(objective, budget, best, tuple(front), not m.relaxed, name, upper, sets, capped, tuple(warnings))
+    return Optimum(
+        objective,
+        budget,
+        best,
+        tuple(front),
+        not m.relaxed,
+        name,
+        upper,
+        sets,
+        capped,
+        tuple(warnings),
+    )
+
+
+def _spread_words(limit: int) -> str:
+    return (
+        f"the frontier has more than {limit} points: {limit} of them are listed, spread evenly "
+        "over it from the cheapest to the dearest, the best set for the budget among them"
+    )
+
+
+def _merged_frontier(
+    variants: Variants, m: _Model, objective: str, limit: int, best: Candidate
+) -> tuple[list[Candidate], bool]:
+    """The exact frontier by merging the groups' options one group at a time [6].
+
+    When the objective is a sum over groups (one load piece), a partial set beaten on both
+    net cost and its share of the objective by another partial set over the same groups can
+    be swapped for it in any whole set without loss, so only the unbeaten partial sets are
+    kept at each step. With the variable base and no pipe options, the objective falls with
+    both net cost and UA, so a set on the (net cost, objective) frontier is on the (net cost,
+    UA) frontier: that one is built the same way, every point evaluated exactly and filtered.
+    """
+    separable = len(m.pieces) == 1
+    slope = m.pieces[0].slope
+    cost = np.zeros(1)
+    score = np.zeros(1)
+    parents: list[IntArray] = []
+    choices: list[IntArray] = []
+    for g, start in enumerate(m.starts):
+        size = len(variants.groups[g].options)
+        net = m.net_x[start : start + size]
+        if separable:
+            gain = -(
+                m.cost_x[start : start + size] + m.k_load * slope * m.ua_x[start : start + size]
+            )
+        else:
+            gain = -m.ua_x[start : start + size]
+        all_cost = (cost[:, None] + net[None, :]).ravel()
+        all_score = (score[:, None] + gain[None, :]).ravel()
+        order = np.lexsort((-all_score, all_cost))
+        ordered = all_score[order]
+        before = np.concatenate(([-np.inf], np.maximum.accumulate(ordered)[:-1]))
+        keep = order[ordered > before]
+        parents.append(keep // size)
+        choices.append(keep % size)
+        cost, score = all_cost[keep], all_score[keep]
+    count = cost.size
+    rows = np.zeros((count, len(m.starts)), dtype=np.int64)
+    index = np.arange(count)
+    for g in range(len(m.starts) - 1, -1, -1):
+        rows[:, g] = choices[g][index]
+        index = parents[g][index]
+    figures = variants.evaluate(rows)
+    values = objective_values(figures, objective)
+    front = pareto(figures.net_cost, values)
+    capped = 0 < limit < len(front)
+    if capped:
+        picks = set(np.linspace(0, len(front) - 1, limit).round().astype(int).tolist())
+        best_row = tuple(best.selection)
+        at_best = [i for i, f in enumerate(front) if tuple(rows[f]) == best_row]
+        if at_best and at_best[0] not in picks:
+            nearest = min(picks, key=lambda p: abs(p - at_best[0]))
+            picks.discard(nearest)
+            picks.add(at_best[0])
+        front = [front[i] for i in sorted(picks)]
+    return [_candidate(variants, rows[i], objective) for i in front], capped
 
 
 def _capped_words(limit: int) -> str:
-    return (
-        f"the frontier has more than {limit} points: the {limit} of highest net cost are listed"
-    )
+    return f"the frontier has more than {limit} points: the {limit} of highest net cost are listed"
 
 
 def _relaxed_value(variants: Variants, m: _Model, row: IntArray, objective: str) -> float:
@@ -618,3 +774,94 @@ def _relaxed_value(variants: Variants, m: _Model, row: IntArray, objective: str)
     _ua, pipe, installed, rebate = variants.group_sums(row[None, :])
     figures = variants.figures_from_sums(np.array([ua]), pipe, installed, rebate)
     return float(objective_values(figures, objective)[0])
+
+
+#: most sets evaluated one by one through the package path when the array core does not
+#: model the house (each is one modified house, about a millisecond)
+MAX_MODEL_ENUMERATION = 4096
+
+
+def best_package_by_model(
+    house: model.House,
+    upgrades: list[model.Upgrade],
+    *,
+    budget: float,
+    objective: str,
+    frontier_limit: int = FRONTIER_LIMIT,
+    reason: str,
+) -> tuple[Optimum, list[model.OptionResult | None]]:
+    """Every allowed set evaluated as a package (:func:`.house_model.evaluate_option`), for a
+    house the array core does not model (``reason``); up to :data:`MAX_MODEL_ENUMERATION`
+    sets, else no answer (``best`` is the empty set, ``exact`` false, a warning says why).
+
+    Returns the optimum and, for each frontier point, its evaluated option (None: no upgrade).
+    """
+    import itertools
+
+    if objective not in OBJECTIVES:
+        raise ValueError(f"the objective must be one of {', '.join(OBJECTIVES)}")
+    targets: dict[str, list[model.Upgrade]] = {}
+    for upgrade in upgrades:
+        targets.setdefault(model.upgrade_target(upgrade), []).append(upgrade)
+    groups = list(targets.values())
+    sets = math.prod(len(g) + 1 for g in groups)
+    empty = Candidate(tuple(0 for _ in groups), (), 0.0, 0.0)
+    if sets > MAX_MODEL_ENUMERATION:
+        words = (
+            f"the optimiser's fast core does not model {reason}, and this house has {sets} sets "
+            f"of upgrades, more than the {MAX_MODEL_ENUMERATION} it evaluates one by one: no "
+            "best set is given"
+        )
+        return Optimum(
+            objective, budget, empty, (), False, "enumeration", None, sets, False, (words,)
+        ), []
+    as_found = model.evaluate(house)
+    order = {u.id: i for i, u in enumerate(upgrades)}
+    candidates: list[Candidate] = []
+    options: list[model.OptionResult | None] = []
+    for combo in itertools.product(*(range(len(g) + 1) for g in groups)):
+        chosen = sorted(
+            (groups[g][k - 1] for g, k in enumerate(combo) if k > 0), key=lambda u: order[u.id]
+        )
+        if not chosen:
+            candidates.append(empty)
+            options.append(None)
+            continue
+        option = model.evaluate_option(house, as_found, "set", chosen)
+        value = {
+            "npv": option.appraisal.npv,
+            "annual_savings": option.appraisal.annual_savings,
+            "co2": option.co2_avoided_kg,
+        }[objective]
+        candidates.append(
+            Candidate(combo, tuple(u.id for u in chosen), option.appraisal.net_cost, value)
+        )
+        options.append(option)
+    costs = np.array([c.net_cost for c in candidates])
+    values = np.array([c.objective_value for c in candidates])
+    allowed = (
+        np.array([_within(c, budget) for c in costs])
+        if math.isfinite(budget)
+        else np.ones(costs.size, bool)
+    )
+    tie = TOLERANCE * max(1.0, float(values.max() - values.min()))
+    top = float(values[allowed].max())
+    ties = np.flatnonzero(allowed & (values >= top - tie))
+    best = candidates[int(ties[np.argmin(costs[ties])])]
+    front = pareto(costs, values)
+    capped = 0 < frontier_limit < len(front)
+    front = front[len(front) - frontier_limit :] if frontier_limit > 0 else []
+    warnings = (_capped_words(frontier_limit),) if capped else ()
+    optimum = Optimum(
+        objective,
+        budget,
+        best,
+        tuple(candidates[i] for i in front),
+        True,
+        "enumeration",
+        None,
+        sets,
+        capped,
+        warnings,
+    )
+    return optimum, [options[i] for i in front]

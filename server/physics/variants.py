@@ -137,6 +137,33 @@ class Figures:
     sir: FloatArray
 
 
+def unsupported(house: model.House, upgrades: Sequence[model.Upgrade] = ()) -> str | None:
+    """What of ``house`` the array core does not model, in words, or None when it models all.
+
+    The core covers the degree-day house of :func:`.house_model.evaluate` without the
+    systems inputs (ducts, heat pump by bins, ventilation, altitude), with pipe runs counted
+    in full at the heating system (no ``location`` and no water heater of their own), and
+    assembly, air-sealing and pipe-insulation upgrades.
+    """
+    known = (model.AssemblyUpgrade, model.AirSealingUpgrade, model.PipeInsulationUpgrade)
+    for upgrade in upgrades:
+        if not isinstance(upgrade, known):
+            return f"upgrade '{upgrade.id}' ({type(upgrade).__name__})"
+    if house.systems is not None:
+        return "the heating and ventilation systems' inputs (ducts, bins, ventilation, altitude)"
+    if house.climate.variable_base is not None:
+        for surface in house.surfaces:
+            if surface.shgc > 0 and surface.solar_w_per_m2:
+                return f"window '{surface.id}': solar gains that move the balance point"
+    for upgrade in upgrades:
+        if isinstance(upgrade, model.AssemblyUpgrade) and upgrade.shgc is not None:
+            return f"upgrade '{upgrade.id}': a window's new solar heat gain coefficient"
+    for run in house.pipe_runs:
+        if run.location is not None or run.water_heater is not None:
+            return f"pipe run '{run.id}': where it runs or its own water heater"
+    return None
+
+
 def adjustment_factor(h_iu: FloatArray, h_ue: float) -> FloatArray:
     """b = H_ue / (H_iu + H_ue), at most 1, and 0 when both are zero [2] (arrays, [W/K])."""
     total = h_iu + h_ue
@@ -147,7 +174,9 @@ def adjustment_factor(h_iu: FloatArray, h_ue: float) -> FloatArray:
 def _air_options(house: model.House, upgrades: Sequence[model.AirSealingUpgrade]) -> ChoiceGroup:
     leak = house.air_leakage
     assert leak is not None
-    options = [Option((), energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3))]
+    options = [
+        Option((), energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3))
+    ]
     for upgrade in upgrades:
         if upgrade.flow50_after_m3_per_s > leak.flow50_m3_per_s * (1 + 1e-12):
             raise ValueError(
@@ -215,6 +244,9 @@ class Variants:
         *,
         group_cap: int = GROUP_OPTION_CAP,
     ) -> None:
+        reason = unsupported(house, upgrades)
+        if reason is not None:
+            raise ValueError(f"the array core does not model {reason}")
         self.house = house
         seen: set[str] = set()
         for upgrade in upgrades:
@@ -241,11 +273,9 @@ class Variants:
                         f"upgrade '{upgrade.id}': there is no pipe run '{upgrade.pipe_id}'"
                     )
                 on_pipe[upgrade.pipe_id].append(upgrade)
-            else:
+            elif isinstance(upgrade, model.AirSealingUpgrade):
                 if house.air_leakage is None:
-                    raise ValueError(
-                        f"upgrade '{upgrade.id}': the house has no air-leakage figure"
-                    )
+                    raise ValueError(f"upgrade '{upgrade.id}': the house has no air-leakage figure")
                 sealing.append(upgrade)
         groups: list[ChoiceGroup] = []
         coupled: list[CoupledSpace] = []
@@ -254,7 +284,9 @@ class Variants:
             behind = surface.adjacent
             if behind in (buffers.OUTDOORS, buffers.GROUND):
                 options = _surface_options(surface, on_surface[surface.id], 1.0)
-                groups.append(ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options))
+                groups.append(
+                    ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options)
+                )
                 continue
             if behind not in spaces:
                 raise ValueError(f"surface '{surface.id}': there is no space '{behind}'")
@@ -262,7 +294,9 @@ class Variants:
             if space.b is not None:
                 b = buffers.space_factors(space, 0.0).b  # checks 0 <= b <= 1
                 options = _surface_options(surface, on_surface[surface.id], b)
-                groups.append(ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options))
+                groups.append(
+                    ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options)
+                )
                 continue
             if behind in done:
                 continue
@@ -288,7 +322,12 @@ class Variants:
             groups.append(_air_options(house, sealing))
         for run in house.pipe_runs:
             options_list = [
-                Option((), energy.pipe_annual_loss(run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year))
+                Option(
+                    (),
+                    pipe_loss_j=energy.pipe_annual_loss(
+                        run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year
+                    ),
+                )
             ]
             for upgrade in on_pipe[run.id]:
                 loss = energy.pipe_annual_loss(
@@ -380,7 +419,9 @@ class Variants:
 
     # --- evaluation ---------------------------------------------------------------------------
 
-    def group_sums(self, selections: IntArray) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray]:
+    def group_sums(
+        self, selections: IntArray
+    ) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray]:
         """UA [W/K] (b applied), pipe loss [J], installed cost and rebates of each selection."""
         sel = np.asarray(selections, dtype=np.int64)
         if sel.ndim == 1:

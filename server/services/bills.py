@@ -9,7 +9,8 @@ Warnings (computed anyway): a single period; two periods (the base is not search
 than 9 periods; less than a year of periods; gaps between periods; a period of more than 40
 days; an estimated read; no heating signal (β ≤ 0 at every base); a heating slope less than
 twice its standard error; a small heating share; the best base at an end of the search range;
-a cooling term kept; no efficiency given; no normal temperatures.
+a cooling term kept; no efficiency given; no normal temperatures; degree-days typed at a
+stated base (then the fit takes that base, :func:`server.physics.bills.fit_degree_days`).
 """
 
 from __future__ import annotations
@@ -61,6 +62,7 @@ def _words(units: UnitSystem, value_c: float) -> str:
 
 
 def _daily_c(bills: BillsIn, units: UnitSystem, prefix: str) -> list[float | None]:
+    assert bills.daily_temperatures is not None
     low, high = PLAUSIBLE_C
     out: list[float | None] = []
     for index, value in enumerate(bills.daily_temperatures.values):
@@ -205,6 +207,76 @@ def _data_warnings(ordered: list[tuple[int, BillPeriodIn]]) -> list[str]:
     return notes
 
 
+def _fit_daily(
+    bills: BillsIn,
+    ordered: list[tuple[int, BillPeriodIn]],
+    units: UnitSystem,
+    fuel: str,
+    prefix: str,
+) -> physics.BillsFit:
+    """The variable-base fit on daily temperatures covering every period."""
+    for index, period in ordered:
+        if period.hdd is not None:
+            raise InputError(
+                f"{prefix}periods[{index}].hdd",
+                "typed degree-days need degree_day_base, the base they were counted at",
+            )
+    if bills.daily_temperatures is None:
+        raise InputError(
+            f"{prefix}daily_temperatures",
+            "is required: the daily mean temperatures of the billing dates, or else each "
+            "period's hdd with degree_day_base",
+        )
+    daily = _daily_c(bills, units, prefix)
+    periods = _covered(ordered, bills.daily_temperatures.start, daily, prefix)
+    series = [0.0 if value is None else value for value in daily]
+    cooling = bills.cooling_term == "auto" and fuel in ELECTRIC_FUELS
+    return physics.fit_bills(series, periods, cooling=cooling)
+
+
+def _fit_typed_degree_days(
+    bills: BillsIn, ordered: list[tuple[int, BillPeriodIn]], units: UnitSystem, prefix: str
+) -> physics.BillsFit:
+    """The fit at the stated base on each period's typed degree-days (no base search)."""
+    assert bills.degree_day_base is not None
+    if bills.daily_temperatures is not None:
+        raise InputError(
+            f"{prefix}degree_day_base",
+            "give either daily_temperatures or typed degree-days (hdd with degree_day_base), "
+            "not both",
+        )
+    base_c = temp_to_c(bills.degree_day_base, units)
+    low, high = physics.HEATING_BASE_RANGE_C
+    if not low - 1e-9 <= base_c <= high + 1e-9:
+        raise InputError(
+            f"{prefix}degree_day_base",
+            f"must be between {_words(units, low)} and {_words(units, high)}",
+        )
+    hdd_k_day = []
+    for index, period in ordered:
+        if period.hdd is None:
+            raise InputError(
+                f"{prefix}periods[{index}].hdd",
+                "is required with degree_day_base: every period needs its heating degree-days",
+            )
+        days = (period.end - period.start).days
+        # a day's degree-days are at most base − (coldest plausible daily mean)
+        most = days * (base_c - PLAUSIBLE_C[0])
+        value_k_day = period.hdd * DELTA_F_K if units == "ip" else period.hdd
+        if value_k_day > most:
+            raise InputError(
+                f"{prefix}periods[{index}].hdd",
+                f"{period.hdd:g} is more degree-days than {days} days can hold at that base",
+            )
+        hdd_k_day.append(value_k_day)
+    return physics.fit_degree_days(
+        [(p.end - p.start).days for _i, p in ordered],
+        [p.use for _i, p in ordered],
+        hdd_k_day,
+        base_c,
+    )
+
+
 def fit_bills_document(
     bills: BillsIn,
     *,
@@ -219,20 +291,26 @@ def fit_bills_document(
     ``efficiency`` None = 1.0 with a warning (``efficiency_note`` words a default the caller
     chose instead, e.g. the house's heating efficiency).
     """
-    daily = _daily_c(bills, units, prefix)
     normal = _normal_c(bills, units, prefix)
     ordered = _ordered(bills, prefix)
-    first = bills.daily_temperatures.start
-    periods = _covered(ordered, first, daily, prefix)
-    series = [0.0 if value is None else value for value in daily]
-    cooling = bills.cooling_term == "auto" and fuel in ELECTRIC_FUELS
+    typed_base = bills.degree_day_base is not None
     try:
-        fit = physics.fit_bills(series, periods, cooling=cooling)
+        if typed_base:
+            fit = _fit_typed_degree_days(bills, ordered, units, prefix)
+        else:
+            fit = _fit_daily(bills, ordered, units, fuel, prefix)
         normalized = None if normal is None else physics.normalize(fit, normal)
     except ValueError as exc:
         raise InputError(f"{prefix}periods", str(exc)) from None
     label, unit, energy_j = fuel_unit_and_energy(fuel)
     warnings = _data_warnings(ordered)
+    if typed_base:
+        assert bills.degree_day_base is not None
+        warnings.append(
+            f"the degree-days were typed at a base of {bills.degree_day_base:g} "
+            f"{'°F' if units == 'ip' else '°C'}: the fit takes that base as given and cannot "
+            "search the house's own balance point"
+        )
     if efficiency is None:
         efficiency = 1.0
         warnings.append(
@@ -241,7 +319,7 @@ def fit_bills_document(
         )
     elif efficiency_note:
         warnings.append(efficiency_note)
-    warnings.extend(_fit_warnings(fit, normalized, units))
+    warnings.extend(_fit_warnings(fit, normalized, units, typed_base=typed_base))
     if normalized is None:
         warnings.append(
             "no normal_temperatures: the weather-normalised annual figures are not computed"
@@ -328,11 +406,15 @@ def fit_bills_document(
 
 
 def _fit_warnings(
-    fit: physics.BillsFit, normalized: physics.Normalized | None, units: UnitSystem
+    fit: physics.BillsFit,
+    normalized: physics.Normalized | None,
+    units: UnitSystem,
+    *,
+    typed_base: bool = False,
 ) -> list[str]:
     notes = []
     low, high = (_words(units, v) for v in physics.HEATING_BASE_RANGE_C)
-    if fit.periods == 2:
+    if fit.periods == 2 and not typed_base:
         notes.append(
             "two periods: the base temperature cannot be searched, so "
             f"{_words(units, physics.REFERENCE_BASE_C)} is used (common practice)"

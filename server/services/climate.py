@@ -8,11 +8,17 @@ from __future__ import annotations
 import math
 from typing import BinaryIO
 
-from server.documents.climate import DegreeDaysAtBase, DegreeDaysResult, MonthlyDegreeDays
+from server.documents.climate import (
+    DegreeDaysAtBase,
+    DegreeDaysResult,
+    MonthlyDegreeDays,
+    TemperatureBin,
+)
 from server.errors import InputError
 from server.physics import degree_days as dd
 from server.physics.units import UnitSystem, c_to_f, delta_k_to_f, f_to_c
 from server.services.weather_files import parse_weather_file
+from server.services.weather_solar import solar_table
 
 #: Default bases in the request's units: 65 °F, 18.3 °C (common practice; API contract).
 DEFAULT_BASE = {"ip": 65.0, "si": 18.3}
@@ -117,6 +123,15 @@ def compute_degree_days(
         )
     elif per_year != 1.0:
         warnings.append("the climate zone uses the file's degree-days per year (365.25 days)")
+    solar, solar_notes = solar_table(  # the sun's table: a second read, EPW and TMY3 only
+        data,
+        kind=series.kind,
+        units=system,
+        bases=TABLE_BASES[system],
+        bases_c=[b if system == "si" else f_to_c(b) for b in TABLE_BASES[system]],
+        station=series.station,
+    )
+    warnings.extend(solar_notes)
     to_dd = (lambda k: k) if system == "si" else delta_k_to_f
     to_t = (lambda c: c) if system == "si" else c_to_f
     return DegreeDaysResult(
@@ -147,5 +162,22 @@ def compute_degree_days(
         degree_days_by_base=[
             DegreeDaysAtBase(base=base, hdd=to_dd(hdd), cdd=to_dd(cdd)) for base, hdd, cdd in table
         ],
+        temperature_bins=_bins(series.temperatures_c, system) if series.is_hourly else None,
+        solar=solar,
         warnings=warnings,
     )
+
+
+#: bin width in the request's units: 1 K (si), 2 °F (ip) (common practice for bin tables)
+BIN_WIDTH = {"si": 1.0, "ip": 2.0}
+
+
+def _bins(temperatures_c: tuple[float, ...], units: UnitSystem) -> list[TemperatureBin]:
+    """Hours per dry-bulb bin of an hourly series, in the request's temperature unit."""
+    from server.physics.heat_pump import bins_from_hourly
+
+    values = temperatures_c if units == "si" else [c_to_f(t) for t in temperatures_c]
+    return [
+        TemperatureBin(temperature=centre, hours=hours)
+        for centre, hours in bins_from_hourly(values, BIN_WIDTH[units])
+    ]

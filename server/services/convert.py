@@ -100,7 +100,9 @@ def convert_upgrade(document: dict[str, Any], src: Units, dst: Units) -> dict[st
         out["pipe_layers"] = [convert_pipe_layer(layer, src, dst) for layer in out["pipe_layers"]]
     if out.get("cost"):
         out["cost"] = convert_cost(out["cost"], src, dst)
-    return out
+    from server.services.convert_systems import upgrade_fields
+
+    return upgrade_fields(out, src, dst)
 
 
 def _degree_day_row(row: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:
@@ -129,8 +131,9 @@ def convert_climate(climate: dict[str, Any], src: Units, dst: Units) -> dict[str
 
         gains_factor = BTU_PER_HOUR_W if src == "ip" else 1 / BTU_PER_HOUR_W
         out["variable_base"] = {
-            "setpoint": _temp(vb["setpoint"], src, dst),
-            "internal_gains": vb["internal_gains"] * gains_factor,
+            **({"setpoint": _temp(vb["setpoint"], src, dst)} if vb.get("setpoint") is not None else {}),
+            **({"internal_gains": vb["internal_gains"] * gains_factor}
+               if vb.get("internal_gains") is not None else {}),
             "table": [_degree_day_row(row, src, dst) for row in vb["table"]],
         }  # fmt: skip
     weather = out.get("weather")
@@ -143,4 +146,7 @@ def convert_climate(climate: dict[str, Any], src: Units, dst: Units) -> dict[str
             _degree_day_row(row, src, dst) for row in weather.get("degree_days_by_base", [])
         ]
         out["weather"] = weather
-    return out
+    from server.services.convert_gains import climate_gains_fields
+    from server.services.convert_systems import climate_fields
+
+    return climate_fields(climate_gains_fields(out, src, dst), src, dst)

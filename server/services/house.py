@@ -63,12 +63,15 @@ from server.physics.fuels import (
     fuel_by_slug,
 )
 from server.physics.units import BTU_J, UnitSystem, from_si, temp_to_c, to_si
+from server.services import gains as gains_svc
+from server.services import systems as systems_svc
 from server.services.assembly import evaluate_assembly
 from server.services.calibration import calibrate
 from server.services.catalog import Catalog
 from server.services.ground import construction_r_from_total, ground_surface, merge_ground
 from server.services.optimize import attach_optimum
 from server.services.pipe import compute_pipe
+from server.services.uncertainty import attach_ranges
 
 STEP_ORDER = (
     "listed: step i is what upgrade i saves on the house that already has upgrades 1..i-1 of "
@@ -151,9 +154,11 @@ class _Build:
         surface_path: str,
         upgrade_path: str | None = None,
         layers: list[PipeLayerIn] | None = None,
+        jacket: float | None = None,
     ) -> tuple[float, float, list[str]]:
-        """Per-length resistance [m·K/W], fluid − ambient [K] and warnings of a pipe run."""
-        spec = pipe.model_dump()
+        """Per-length resistance [m·K/W], fluid − ambient [K] and warnings of a pipe run
+        (``jacket``: an insulation upgrade's outer emissivity)."""
+        spec = systems_svc.pipe_request_fields(pipe.model_dump(), jacket=jacket, resolve=True)
         if layers is not None:
             spec["layers"] = [layer.model_dump() for layer in layers]
         try:
@@ -193,10 +198,16 @@ def _check_ids(doc: HouseDocument, build: _Build) -> None:
                     f"upgrades[{index}]", "air sealing needs the house's air_leakage (CFM50 or n50)"
                 )
             continue
+        if upgrade.kind in ("duct_sealing", "duct_insulation"):
+            if doc.heating.ducts is None:
+                build.problem(f"upgrades[{index}]", f"{upgrade.kind} needs the house's heating.ducts")
+            continue
         if upgrade.surface not in kinds:
             build.problem(path, f"there is no surface '{upgrade.surface}'")
         elif upgrade.kind == "assembly" and kinds[upgrade.surface] == "pipe_run":
             build.problem(path, f"'{upgrade.surface}' is a pipe run: use kind pipe_insulation")
+        elif upgrade.kind == "window" and kinds[upgrade.surface] != "window":
+            build.problem(path, f"'{upgrade.surface}' is a {kinds[upgrade.surface]}, not a window")
         elif upgrade.kind == "pipe_insulation" and kinds[upgrade.surface] != "pipe_run":
             build.problem(path, f"'{upgrade.surface}' is not a pipe run")
     upgrades = {u.id: u for u in doc.upgrades}
@@ -208,7 +219,11 @@ def _check_ids(doc: HouseDocument, build: _Build) -> None:
                 build.problem(path, f"there is no upgrade '{name}'")
                 continue
             upgrade = upgrades[name]
-            target = "the air leakage" if upgrade.kind == "air_sealing" else f"'{upgrade.surface}'"
+            target = {
+                "air_sealing": "the air leakage",
+                "duct_sealing": "the duct leakage",
+                "duct_insulation": "the duct insulation",
+            }.get(upgrade.kind or "", f"'{upgrade.surface}'")
             if name in package.upgrades[:u_index]:
                 build.problem(path, f"'{name}' is listed twice")
             elif target in targets:
@@ -247,6 +262,10 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
                     r_si,
                     delta_k,
                     surface.hours_per_year,
+                    service=surface.pipe.service,
+                    location=systems_svc.pipe_location(doc, surface.pipe, path),
+                    heating_season_share=surface.pipe.heating_season_share,
+                    water_heater=systems_svc.water_heater(surface.pipe),
                 )
             )
             continue
@@ -268,8 +287,9 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
             if air.cfm50 is not None
             else flow_from_ach50(air.n50 or 0.0, volume_m3)
         )
-        leakage = model.AirLeakage(flow, air.n_factor, volume_m3)
-        if "n_factor" not in air.model_fields_set:
+        found = systems_svc.n_factor(doc)
+        leakage = model.AirLeakage(flow, air.n_factor if found is None else found[0], volume_m3)
+        if "n_factor" not in air.model_fields_set and air.n_factor_table is None:
             build.warnings.append(
                 "air_leakage: no n_factor given; N = 18 assumed (common practice)"
             )
@@ -281,7 +301,7 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
         climate=model.Climate(
             to_si(doc.climate.hdd, "degree_days", units),
             to_si(doc.climate.cdd, "degree_days", units),
-            _variable_base(doc.climate.variable_base, units),
+            gains_svc.variable_base_si(doc),
         ),
         heating=model.Heating(
             fuel_by_slug(heating.fuel), heating.efficiency, heating.price, heating.co2_per_unit
@@ -298,6 +318,7 @@ def _house(doc: HouseDocument, build: _Build) -> model.House:
         if cooling is None
         else model.Cooling(cooling.electricity_price, seer=cooling.seer, cop=cooling.cop),
         pipe_runs=tuple(pipes),
+        systems=systems_svc.build_systems(doc, build.warnings),
         electricity_co2_kg_per_kwh=GRID_ELECTRICITY_CO2_KG_PER_KWH
         if doc.electricity_co2_per_kwh is None
         else doc.electricity_co2_per_kwh,
@@ -317,6 +338,9 @@ def _upgrade(
     path = f"upgrades[{index}]"
     cost = upgrade.cost
     rebate, life = upgrade.rebate, upgrade.life_years
+    if upgrade.kind in ("duct_sealing", "duct_insulation"):
+        build.warnings.extend(systems_svc.duct_upgrade_notes(doc, upgrade))
+        return systems_svc.duct_upgrade(doc, index, upgrade)
     if upgrade.kind == "air_sealing":
         leak = house.air_leakage
         assert leak is not None  # _check_ids refused air sealing without air_leakage
@@ -338,7 +362,14 @@ def _upgrade(
     if upgrade.kind == "pipe_insulation":
         assert surface.pipe and surface.length  # a pipe run, checked by the document
         r_si, _delta, notes = build.pipe(
-            surface.pipe, surface.length, f"surfaces[{surface_index}]", path, upgrade.pipe_layers
+            surface.pipe,
+            surface.length,
+            f"surfaces[{surface_index}]",
+            path,
+            upgrade.pipe_layers,
+            jacket=upgrade.emissivity
+            if upgrade.emissivity is not None
+            else systems_svc.pipe_runs.JACKET_EMISSIVITY,
         )
         build.warnings.extend(f"{upgrade.id}: {note}" for note in notes)
         installed = cost.fixed + cost.per_length * surface.length
@@ -374,7 +405,8 @@ def _upgrade(
         r_words = f"R {r_before:.3g} as found, {r_after:.3g} after"
         build.warnings.append(f"{upgrade.id}: does not improve '{surface.id}' ({r_words})")
     installed = cost.fixed + cost.per_area * surface.area
-    return model.AssemblyUpgrade(upgrade.id, surface.id, u_si, installed, rebate, life)
+    shgc = upgrade.shgc if upgrade.kind == "window" else None
+    return model.AssemblyUpgrade(upgrade.id, surface.id, u_si, installed, rebate, life, shgc)
 
 
 
@@ -451,14 +483,22 @@ INDOOR_DESIGN_C = {"ip": (70.0 - 32.0) * 5.0 / 9.0, "si": 21.0}
 OVERSIZED_RATIO = 1.4
 
 
-def _design(doc: HouseDocument, ua_w_per_k: float) -> tuple[float | None, float | None]:
-    """Design heat loss [document units: Btu/h or W] and capacity ratio [-] of one variant."""
+def _design(
+    doc: HouseDocument, ua_w_per_k: float, distribution_efficiency: float = 1.0
+) -> tuple[float | None, float | None]:
+    """Design heat loss [document units: Btu/h or W] and capacity ratio [-] of one variant.
+
+    With ducts the loss at design is UA·ΔT / η_dist,design: the envelope's and the ducts'
+    (ASHRAE Standard 152 design distribution efficiency, see :mod:`server.physics.ducts`).
+    """
     design = doc.climate.heating_design_temperature
     if design is None:
         return None, None
     indoor = doc.climate.indoor_design_temperature
     indoor_c = INDOOR_DESIGN_C[doc.units] if indoor is None else temp_to_c(indoor, doc.units)
     loss_w = design_heat_loss(ua_w_per_k, indoor_c, temp_to_c(design, doc.units))
+    if distribution_efficiency != 1.0:
+        loss_w /= distribution_efficiency
     capacity = doc.heating.output_capacity
     ratio = None if capacity is None else capacity_ratio(to_si(capacity, "power", doc.units), loss_w)
     return from_si(loss_w, "power", doc.units), ratio
@@ -485,6 +525,7 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
             share_of_ua=energy.ua_by_surface_w_per_k[s.id] / total_ua if total_ua > 0 else 0.0,
             adjacent=s.adjacent,
             b=energy.spaces[s.adjacent].b if s.adjacent in energy.spaces else 1.0,
+            **gains_svc.surface_gain_figures(doc, s, energy),
         )
         for s in house.surfaces
     ]
@@ -496,12 +537,18 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
             r_per_length=from_si(p.r_per_length_si, "r_per_length", units),
             heat_loss_per_length=from_si(p.delta_t_k / p.r_per_length_si, "q_per_length", units),
             annual_loss=_energy(energy.pipe_loss_by_run_j[p.id], units),
+            service=p.service,
+            location=p.location,
+            counted_loss=_energy(energy.pipe_counted_by_run_j.get(p.id, 0.0), units),
+            water_heating_fuel=energy.water_heating_fuel_by_run.get(p.id),
         )
         for p in house.pipe_runs
     ]
     leak = house.air_leakage
     ach50 = None if leak is None else air_changes_at_50_pa(leak.flow50_m3_per_s, leak.volume_m3)
-    design_loss, ratio = _design(doc, total_ua)
+    eta_design = systems_svc.design_distribution_efficiency(energy)
+    design_loss, ratio = _design(doc, total_ua, eta_design)
+    envelope_design = None if design_loss is None else to_si(design_loss, "power", units) * eta_design
     return {
         "ua": ua(total_ua),
         "ua_envelope": ua(energy.envelope_ua_w_per_k),
@@ -528,6 +575,8 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
         "co2_biogenic": energy.co2_biogenic_kg,
         "design_heat_loss": design_loss,
         "capacity_ratio": ratio,
+        **systems_svc.figures(doc, energy, envelope_design),
+        **gains_svc.gain_figures(doc, house, energy),
     }
 
 
@@ -633,7 +682,7 @@ def compute_house(
         )
     except ValueError as exc:
         raise InputError("economics.discount_rate", str(exc)) from None
-    house = _with_spaces(doc, _house(doc, build))
+    house = gains_svc.with_windows(doc, _with_spaces(doc, _house(doc, build)), build.warnings)
     pure = [_upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
     build.raise_problems()
     upgrades = [u for u in pure if u is not None]
@@ -661,7 +710,8 @@ def compute_house(
             fuel=_fuel(doc, house),
             analysis_years=doc.economics.years,
             step_order=STEP_ORDER,
-            assumptions=list(ASSUMPTIONS) + _space_assumptions(doc),
+            assumptions=list(ASSUMPTIONS) + _space_assumptions(doc) + systems_svc.assumptions(doc),
+            degree_day_basis=gains_svc.degree_day_basis(doc),
             warnings=build.warnings,
         )
     except ValidationError as exc:  # the result parts refuse inf and NaN (FiniteOut)
@@ -670,22 +720,8 @@ def compute_house(
         raise
     calibrate(doc, result)  # with bills: calibration and each option's calibrated figures
     attach_optimum(doc, house, upgrades, comparison.as_found, result)  # with optimize
+    attach_ranges(doc, house, upgrades, result)  # with uncertainty
     return result
-
-
-def _variable_base(vb, units: str):  # type: ignore[no-untyped-def]
-    """The request's variable-base table in SI (°C, W, K·day), or None."""
-    if vb is None:
-        return None
-    from server.physics.units import BTU_PER_HOUR_W, temp_to_c
-
-    gains_w = vb.internal_gains * (BTU_PER_HOUR_W if units == "ip" else 1.0)
-    return model.VariableBase(
-        setpoint_c=temp_to_c(vb.setpoint, units),  # type: ignore[arg-type]
-        internal_gains_w=gains_w,
-        bases_c=tuple(temp_to_c(row.base, units) for row in vb.table),  # type: ignore[arg-type]
-        hdd_k_day=tuple(to_si(row.hdd, "degree_days", units) for row in vb.table),  # type: ignore[arg-type]
-    )
 
 
 # --- buffer spaces (ISO 13789) -------------------------------------------------------------

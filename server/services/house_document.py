@@ -56,8 +56,12 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
         body["cooling"] = house.cooling
     if house.air_leakage:
         body["air_leakage"] = house.air_leakage
+    _export_ventilation(body)
     _export_spaces(house, body)
     _export_ground(house, body)
+    if house.bills:  # the heating fuel's bills, stored as the document's (services/house_bills)
+        body["bills"] = house.bills
+    _export_gains(house, body)
     try:
         return HouseDocument.model_validate(body)
     except ValidationError as exc:
@@ -72,12 +76,19 @@ def _surface(s: Surface) -> dict[str, Any]:
     return {"id": s.slug, "kind": s.kind, "name": s.name, "area": s.area, "assembly": s.assembly}
 
 
-CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base")
+CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base",
+                "heating_design_temperature", "indoor_design_temperature", "temperature_bins",
+                "elevation", "heating_season_temperature")  # fmt: skip
 
 
 def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
-    """The calculation's part of the stored climate (the weather file's details stay behind)."""
-    return {k: v for k, v in (stored or {}).items() if k in CLIMATE_KEYS and v is not None}
+    """The calculation's part of the stored climate (the weather file's details stay behind,
+    except its temperature bins when the climate has none of its own: a heat pump uses them)."""
+    out = {k: v for k, v in (stored or {}).items() if k in CLIMATE_KEYS and v is not None}
+    weather = (stored or {}).get("weather")
+    if "temperature_bins" not in out and isinstance(weather, dict) and weather.get("temperature_bins"):
+        out["temperature_bins"] = weather["temperature_bins"]
+    return out
 
 
 def import_house(*, session: Session, organization_id: int, document: HouseDocument) -> House:
@@ -98,7 +109,13 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
     house.air_leakage = (
         document.air_leakage.model_dump(exclude_none=True) if document.air_leakage else None
     )
+    if house.air_leakage and "n_factor_table" in house.air_leakage:  # the table gives N
+        house.air_leakage.pop("n_factor", None)
+    if document.mechanical_ventilation is not None:  # kept with the air (no column of its own)
+        vent = document.mechanical_ventilation.model_dump(exclude_none=True)
+        house.air_leakage = {**(house.air_leakage or {}), "mechanical_ventilation": vent}
     house.economics = document.economics.model_dump(exclude_none=True)
+    house.bills = document.bills.model_dump(mode="json", exclude_none=True) if document.bills else None
     for i, s in enumerate(document.surfaces):
         if s.kind == "pipe_run":
             session.add(Surface(house=house, position=i, slug=s.id, name=s.name or s.id, kind=s.kind,
@@ -117,6 +134,7 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
     session.flush()
     _import_spaces(house, document)
     _import_ground(house, document)
+    _import_gains(house, document)
     by_slug = {s.slug: s.id for s in house.surfaces}
     for i, u in enumerate(document.upgrades):
         doc = u.model_dump(exclude_none=True, exclude={"id", "name"})
@@ -194,3 +212,72 @@ def _import_ground(house: House, document: HouseDocument) -> None:
         if row.slug in grounds:
             ground = grounds[row.slug].model_dump(exclude_none=True)
             row.details = {**(row.details or {}), "ground": ground}
+
+
+def _export_ventilation(body: dict[str, Any]) -> None:
+    """Mechanical ventilation, stored beside the air leakage, into its own document field."""
+    air = body.get("air_leakage")
+    if not isinstance(air, dict) or "mechanical_ventilation" not in air:
+        return
+    air = dict(air)
+    body["mechanical_ventilation"] = air.pop("mechanical_ventilation")
+    if air:
+        body["air_leakage"] = air
+    else:
+        body.pop("air_leakage")
+
+
+def _export_gains(house: House, body: dict[str, Any]) -> None:
+    """Floor area, bedrooms, internal gains, the sun's table and each window's SHGC and facing.
+
+    A house whose weather file gave a degree-day table by base (``climate.weather``) and whose
+    gains are known (typed, or floor area and bedrooms) gets the variable base by default.
+    """
+    stored = house.climate or {}
+    gains: dict[str, Any] = stored["gains"] if isinstance(stored.get("gains"), dict) else {}
+    if house.floor_area:
+        body["floor_area"] = house.floor_area
+    for key in ("bedrooms", "internal_gains"):
+        if gains.get(key) is not None:
+            body[key] = gains[key]
+    weather: dict[str, Any] = (
+        stored["weather"] if isinstance(stored.get("weather"), dict) else {}
+    )
+    climate = dict(body["climate"])
+    sun = stored.get("solar") or weather.get("solar")
+    if sun:
+        climate["solar"] = sun
+    table = weather.get("degree_days_by_base")
+    known = body.get("internal_gains") is not None or (
+        body.get("floor_area") is not None and body.get("bedrooms") is not None
+    )
+    if "variable_base" not in climate and table and known:
+        climate["variable_base"] = {"table": [{"base": r["base"], "hdd": r["hdd"]} for r in table]}
+    body["climate"] = climate
+    windows = {row.slug: (row.details or {}).get("window") for row in house.surfaces}
+    for surface in body["surfaces"]:
+        if windows.get(surface["id"]):
+            surface.update(windows[surface["id"]])
+
+
+WINDOW_KEYS = ("shgc", "orientation", "azimuth", "tilt")
+
+
+def _import_gains(house: House, document: HouseDocument) -> None:
+    """The document's gains fields onto the saved house (floor area in its column, bedrooms
+    and internal gains in ``climate["gains"]``, a window's SHGC and facing in its details)."""
+    house.floor_area = document.floor_area
+    gains = {
+        key: getattr(document, key)
+        for key in ("bedrooms", "internal_gains")
+        if getattr(document, key) is not None
+    }
+    if gains:
+        house.climate = {**(house.climate or {}), "gains": gains}
+    facing = {
+        s.id: {key: getattr(s, key) for key in WINDOW_KEYS if getattr(s, key) is not None}
+        for s in document.surfaces
+    }
+    for row in house.surfaces:
+        if facing.get(row.slug):
+            row.details = {**(row.details or {}), "window": facing[row.slug]}

@@ -12,8 +12,9 @@ from sqlalchemy.orm import Session, object_session, selectinload
 from server.db import lost_race
 from server.documents.assembly import AssemblyInput, AssemblyResult
 from server.documents.common import Units
-from server.errors import InputError
+from server.errors import Conflict, InputError, NotFound
 from server.models import House, Organization, Surface, utcnow
+from server.services import house_changes  # noqa: F401  (a child row's change touches its house)
 from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
 from server.services.code_check import code_verdict
@@ -33,10 +34,6 @@ SURFACE_KINDS = {
 DEFAULT_HEAT_FLOW = {"ceiling": "up", "cathedral_roof": "up", "floor": "down"}
 
 
-class NotFound(Exception):
-    """The object does not exist for this organization (shown as 404, never 403)."""
-
-
 #: the largest id the id columns hold on both backends (PostgreSQL INTEGER: 2**31 - 1); a larger
 #: one in a URL names nothing, and the drivers cannot even send it (a 500 before this check)
 MAX_ID = 2**31 - 1
@@ -45,13 +42,6 @@ MAX_ID = 2**31 - 1
 def _real_id(*ids: int) -> None:
     if not all(0 < i <= MAX_ID for i in ids):
         raise NotFound
-
-
-@dataclass
-class Conflict(Exception):
-    """Someone else saved the house since this form was loaded."""
-
-    current_version: int
 
 
 def default_organization(*, session: Session) -> Organization:
@@ -347,9 +337,20 @@ def switch_units(
         upgrade.document = cv.convert_upgrade(upgrade.document, src, units)
     if house.climate:
         house.climate = cv.convert_climate(house.climate, src, units)
+    if house.bills:  # the heating fuel's bills: temperatures and degree-days
+        from server.services.house_bills import convert_bills
+
+        house.bills = convert_bills(house.bills, src, units)
     if house.air_leakage and house.air_leakage.get("volume"):
         house.air_leakage = {**house.air_leakage,
                              "volume": cv.convert_value(house.air_leakage["volume"], "volume", src, units)}  # fmt: skip
+    from server.services import convert_systems as cs  # capacity, ducts, heat pump, ventilation
+
+    if house.heating:
+        house.heating = cs.heating_fields(house.heating, src, units)
+    if house.air_leakage and isinstance(house.air_leakage.get("mechanical_ventilation"), dict):
+        vent = cs.ventilation_fields(house.air_leakage["mechanical_ventilation"], src, units)
+        house.air_leakage = {**house.air_leakage, "mechanical_ventilation": vent}
     if house.floor_area:
         house.floor_area = cv.convert_value(house.floor_area, "area", src, units)
     if house.volume:
@@ -401,8 +402,10 @@ def pipe_rows(house: House) -> list[tuple[Surface, Any]]:
         if surface.kind != "pipe_run":
             continue
         try:
+            from server.services.systems import pipe_request_fields
+
             request = PipeRequest.model_validate(
-                {"units": house.units, **surface.details["pipe"], "length": surface.area,
+                {"units": house.units, **pipe_request_fields(surface.details["pipe"]), "length": surface.area,
                  "hours_per_year": surface.details.get("hours_per_year")}
             )  # fmt: skip
             rows.append((surface, compute_pipe(request)))

@@ -15,6 +15,12 @@ INDOOR_C, INDOOR_RH = 21.0, 0.40
 OUTDOOR_C, OUTDOOR_RH = -10.0, 0.80
 #: glass-fibre or mineral-wool batt: mu ≈ 1 (ISO 10456:2007 Table 3, from memory)
 BATT_MU = 1.0
+#: Said with every check of an assembly with a framed layer.
+CAVITY_SECTION_NOTE = (
+    "Checked through the cavity section: ISO 13788 is one-dimensional, so a framed layer "
+    "counts its cavity's R (not the framing's, nor the isothermal-planes average), which keeps "
+    "the sheathing on the cold side colder: the conservative path."
+)
 
 
 @dataclass(frozen=True)
@@ -45,7 +51,8 @@ def check_assembly_moisture(
         thickness_m = (
             None if out.thickness is None else to_si(out.thickness, "thickness", units) * 1e-3
         )
-        r_si = to_si(out.r, "r", units)
+        # a framed layer: the cavity section's R, the colder path (ISO 13788 is 1-D)
+        r_si = to_si(out.r if out.r_cavity_path is None else out.r_cavity_path, "r", units)
         sd = doc.vapour_sd_m
         if sd is None:
             slug = doc.material or (doc.cavity.material if doc.cavity else None)
@@ -77,6 +84,8 @@ def check_assembly_moisture(
         outside_surface_resistance_m2k_w=max(to_si(films.outside, "r", units), 0.0),
     )
     words = summary_words(result, units=units)
+    if any(out.r_cavity_path is not None for out in computed.layers):
+        words.append(CAVITY_SECTION_NOTE)
     if unknown:
         words.insert(
             0,

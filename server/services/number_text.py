@@ -136,7 +136,9 @@ def _bounded(value: float, *, low: float | None, high: float | None, low_open: b
                 "must be greater than zero" if low == 0 else f"must be greater than {low:g}"
             )
         if not low_open and value < low:
-            raise NumberTextError("must be zero or more" if low == 0 else f"must be at least {low:g}")
+            raise NumberTextError(
+                "must be zero or more" if low == 0 else f"must be at least {low:g}"
+            )
     if high is not None and value > high:
         raise NumberTextError(f"must be at most {high:g}")
     return value

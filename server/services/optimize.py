@@ -24,6 +24,8 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from server.documents.house import (
     FrontierPoint,
     HouseDocument,
@@ -34,7 +36,7 @@ from server.errors import InputError
 from server.physics import house_model as model
 from server.physics import optimize as search
 from server.physics.units import from_si
-from server.physics.variants import Variants
+from server.physics.variants import Variants, unsupported
 from server.services.catalog import Catalog
 
 OBJECTIVE_WORDS = {
@@ -73,21 +75,36 @@ def attach_optimum(
         return
     from server.services.house import _option
 
-    try:
-        variants = Variants(house, upgrades)
-    except ValueError as exc:  # compute_house checked these already; a guard against a 500
-        raise InputError("upgrades", str(exc)) from None
     budget = math.inf if wanted.budget is None else wanted.budget
-    found = search.best_package(
-        variants,
-        budget=budget,
-        objective=wanted.objective,
-        frontier_limit=wanted.frontier_limit,
-    )
+    reason = unsupported(house, upgrades)
+    variants = None
+    front_options: list[model.OptionResult | None] = []
+    if reason is not None:  # through the package path, set by set
+        found, front_options = search.best_package_by_model(
+            house,
+            upgrades,
+            budget=budget,
+            objective=wanted.objective,
+            frontier_limit=wanted.frontier_limit,
+            reason=reason,
+        )
+    else:
+        try:
+            variants = Variants(house, upgrades)
+        except ValueError as exc:  # compute_house checked these already; a guard against a 500
+            raise InputError("upgrades", str(exc)) from None
+        found = search.best_package(
+            variants,
+            budget=budget,
+            objective=wanted.objective,
+            frontier_limit=wanted.frontier_limit,
+        )
     warnings = list(found.warnings)
     by_id = {u.id: u for u in upgrades}
     best = None
-    if found.best.upgrade_ids:
+    if not found.exact and found.method == "enumeration":
+        pass  # no answer: the warning says why
+    elif found.best.upgrade_ids:
         chosen = [by_id[name] for name in found.best.upgrade_ids]
         option = model.evaluate_option(house, as_found, "best", chosen)
         best = _option(doc, house, by_id, as_found, option, "Best for the budget")
@@ -97,10 +114,13 @@ def attach_optimum(
             f"({OBJECTIVE_WORDS[wanted.objective]}); best is null: no upgrade"
         )
     frontier = []
-    if found.frontier:
+    if found.frontier and variants is None:
+        frontier = [
+            _point_of_option(doc, as_found, point, option)
+            for point, option in zip(found.frontier, front_options, strict=True)
+        ]
+    elif found.frontier and variants is not None:
         rows = [list(point.selection) for point in found.frontier]
-        import numpy as np
-
         figures = variants.evaluate(np.array(rows, dtype=np.int64))
         for index, point in enumerate(found.frontier):
             sir = float(figures.sir[index])
@@ -137,4 +157,35 @@ def attach_optimum(
         sets=found.sets,
         frontier_capped=found.frontier_capped,
         warnings=warnings,
+    )
+
+
+def _point_of_option(
+    doc: HouseDocument,
+    as_found: model.HouseEnergy,
+    point: search.Candidate,
+    option: model.OptionResult | None,
+) -> FrontierPoint:
+    """A frontier point from its evaluated option (None: no upgrade, the as-found house)."""
+    if option is None:
+        return FrontierPoint(
+            upgrades=[], net_cost=0.0, objective_value=0.0, annual_savings=0.0, npv=0.0,
+            sir=None, co2_avoided=0.0, installed_cost=0.0, rebates=0.0,
+            simple_payback_years=None, total_cost=as_found.total_cost,
+            ua=from_si(as_found.ua_w_per_k, "ua", doc.units),
+        )  # fmt: skip
+    money = option.appraisal
+    return FrontierPoint(
+        upgrades=list(point.upgrade_ids),
+        net_cost=money.net_cost,
+        objective_value=point.objective_value,
+        annual_savings=money.annual_savings,
+        npv=money.npv,
+        sir=money.sir,
+        co2_avoided=option.co2_avoided_kg,
+        installed_cost=money.installed_cost,
+        rebates=money.rebates,
+        simple_payback_years=money.simple_payback_years,
+        total_cost=option.energy.total_cost,
+        ua=from_si(option.energy.ua_w_per_k, "ua", doc.units),
     )

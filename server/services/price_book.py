@@ -26,7 +26,7 @@ from sqlalchemy.orm import Session, object_session
 from server.errors import FieldError, InputError
 from server.models import House, PriceBookItem, Upgrade, utcnow
 from server.physics.units import FOOT_M, SQFT_M2
-from server.services.houses import NotFound
+from server.services.houses import NotFound, check_version, touch
 
 Basis = Literal["per_area", "per_length", "fixed"]
 BASES: dict[str, str] = {
@@ -158,6 +158,33 @@ def apply_price_item(
     if item.basis != "fixed":
         cost[item.basis] = unit_cost_in(item, units)
     return {**document, "cost": cost, "price_item": item.slug}
+
+
+def link_price_item(
+    *, session: Session, organization_id: int, house: House, upgrade: Upgrade, price_item: str,
+    expected_version: int | None,
+) -> None:  # fmt: skip
+    """Link ``upgrade`` to the firm's item ``price_item`` (its cost then follows the item), or
+    unlink it when ``price_item`` is empty (the cost last filled in stays).
+
+    Raises
+    ------
+    Conflict
+        The form was loaded from an older version, or another save came first.
+    InputError
+        ``price_item``: no such item in the firm's price book, or one that does not fit the
+        upgrade (:func:`check_fits`).
+    """
+    check_version(house, expected_version)
+    if price_item:
+        items = {i.slug: i for i in list_items(session=session, organization_id=organization_id)}
+        if price_item not in items:
+            raise InputError("price_item", "there is no such item in the price book")
+        document = apply_price_item(upgrade.document, items[price_item], units=house.units)
+    else:
+        document = {k: v for k, v in upgrade.document.items() if k != "price_item"}
+    upgrade.document = document
+    touch(house)  # written now: Conflict when another save of the house came first
 
 
 def priced_document(

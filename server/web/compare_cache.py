@@ -8,7 +8,7 @@ they depend on, read fresh from the database on every request:
 
 * the house row's ``id``, ``version`` and ``updated_at``: every change to the house, its
   surfaces, upgrades or packages bumps them (the services call ``touch(house)``; the flush
-  hook at the end of this module does it for a change that forgot to);
+  hook of :mod:`server.services.house_changes` does it for a change that forgot to);
 * the chosen upgrades (``pick``), in order;
 * the firm's material catalog (its content);
 * a stamp of the firm's price book (count, newest id, latest update), read in the same
@@ -19,7 +19,9 @@ join the key in :func:`cached_compare_context`, or the page shows the old figure
 
 The body fragment is shared by every viewer of that state, so it is rendered without the
 request (:class:`SharedRender` fails loudly if the template reaches for one); the page around
-it, with the viewer's name and CSRF token, is rendered for each request.
+it, with the viewer's name and CSRF token, is rendered for each request. (Keeping the whole
+page too, with the viewer's values swapped in, measured within the noise of this in
+``make bench``, while rendering the body on every request cost half the throughput.)
 
 Several app processes on one database stay right: each keeps its own entries and the key comes
 from the shared database. Memory is bounded by an estimate of the bytes kept (MAX_WEIGHT_KB),
@@ -28,22 +30,20 @@ not just a count of entries.
 
 from __future__ import annotations
 
-import secrets
 import threading
 from collections import OrderedDict
 from collections.abc import Callable, Hashable
 from dataclasses import dataclass
-from types import SimpleNamespace
-from typing import Any
+from typing import Any, Protocol
 
-from markupsafe import Markup, escape
-from sqlalchemy import bindparam, event, func, inspect, select
+from markupsafe import Markup
+from sqlalchemy import bindparam, func, inspect, select
 from sqlalchemy.orm import Session, load_only, object_session
-from sqlalchemy.orm.util import identity_key
 
-from server.models import House, Package, PriceBookItem, Surface, Upgrade, utcnow
+from server.errors import NotFound
+from server.models import House, PriceBookItem, Upgrade
 from server.services.catalog import Catalog, builtin_catalog
-from server.services.houses import MAX_ID, NotFound
+from server.services.houses import MAX_ID
 
 #: memory kept per process [kB], estimated per entry by :func:`_weight_kb` (measured with
 #: tracemalloc: 0.8 MB for the 40-surface house with 6 packages and a selection)
@@ -52,7 +52,11 @@ MAX_ENTRIES = 256
 #: contexts computed at once per process (more only share the CPU and multiply the memory)
 _BUILDS = threading.BoundedSemaphore(2)
 
-Builder = Callable[[Any, Catalog, list[str]], dict[str, Any]]
+
+class Builder(Protocol):
+    """What computes a compare context (see :mod:`server.web.pages.compare`)."""
+
+    def __call__(self, *, house: House, catalog: Catalog, chosen: list[str]) -> dict[str, Any]: ...
 
 
 class _Cache:
@@ -108,8 +112,8 @@ CACHE = _Cache()
 
 
 def _weight_kb(context: dict[str, Any]) -> int:
-    """About 1.4 kB per surface row of each option kept, plus ~300 kB of rendered HTML (the
-    body, and the whole page per role: 60-75 kB each for the largest houses)."""
+    """About 1.4 kB per surface row of each option kept, plus 300 kB for the rendered bodies
+    kept with it (plain and for htmx: 60-75 kB each for the largest houses) and its charts."""
     result = context.get("result")
     if result is None:
         return 1
@@ -231,55 +235,10 @@ def fragment_html(context: dict[str, Any], environment: Any, *, is_htmx: bool) -
     return html  # type: ignore[no-any-return]
 
 
-PAGE = "pages/compare.html"
-#: stand-ins for the viewer's own values in a kept page, unguessable so that no text of a
-#: house can contain them (made per process; letters and digits only, so never escaped)
-_MARK = secrets.token_hex(12)
-NAME_MARK, EMAIL_MARK, CSRF_MARK = (f"wsv{part}{_MARK}" for part in ("name", "email", "csrf"))
-
-
-class ViewerMarks:
-    """Stands in for ``request`` while the whole compare page is rendered once for every
-    viewer of one role: the viewer's name, e-mail and CSRF token come out as marks, replaced
-    per request by :func:`page_html`; anything else read from the request fails loudly."""
-
-    def __init__(self, role: str, has_name: bool) -> None:
-        from server.web.deps import Viewer
-
-        viewer = Viewer(id=0, email=EMAIL_MARK, name=NAME_MARK if has_name else "", role=role)
-        self.state = SimpleNamespace(viewer=viewer, csrf_token=CSRF_MARK)
-
-    def __getattr__(self, name: str) -> Any:
-        raise RuntimeError(
-            f"{PAGE} is rendered once per state of the house and role and shown to every "
-            f"such viewer: it may read only the viewer's name, e-mail and CSRF token from the "
-            f"request, not request.{name}"
-        )
-
-
-def page_html(context: dict[str, Any], environment: Any, *, viewer: Any, csrf_token: str) -> str:
-    """The whole compare page for this viewer: kept once per state and role with marks in
-    place of the viewer's own values (rendering it took ~10 % of a request under load), then
-    the marks replaced. Per-viewer parts beyond those must not go into the page's template."""
-    kept: dict[str, Any] = context["_kept"]
-    key = (viewer.role, bool(viewer.name))
-    pages = kept.setdefault("_pages", {})
-    html = pages.get(key)
-    if html is None:
-        body = fragment_html(context, environment, is_htmx=False)
-        values = {k: v for k, v in context.items() if not k.startswith("_")}
-        html = environment.get_template(PAGE).render(
-            values, request=ViewerMarks(*key), is_htmx=False, compare_body_html=body
-        )
-        pages[key] = html
-    html = html.replace(CSRF_MARK, csrf_token).replace(EMAIL_MARK, str(escape(viewer.email)))
-    return html.replace(NAME_MARK, str(escape(viewer.name))) if viewer.name else html
-
-
 def cached_compare_context(
-    house: House, catalog: Catalog, chosen: list[str], build: Builder
+    *, house: House, catalog: Catalog, chosen: list[str], build: Builder
 ) -> dict[str, Any]:
-    """``build(house, catalog, chosen)``, or the copy kept for this very state of the house.
+    """``build(house=, catalog=, chosen=)``, or the copy kept for this very state of the house.
 
     The copy shares one dict with the cache (key ``"_kept"``) so that :func:`fragment_html`
     can keep the rendered body with it."""
@@ -295,33 +254,11 @@ def cached_compare_context(
 
     def compute() -> dict[str, Any]:
         load_all_columns(house)
-        kept = {k: v for k, v in build(house, catalog, chosen).items() if k != "house"}
+        built = build(house=house, catalog=catalog, chosen=chosen)
+        kept = {k: v for k, v in built.items() if k != "house"}
         if "upgrades" in kept:  # not the ORM rows: they hold their whole session's objects
             kept["upgrades"] = [UpgradeView.of(u) for u in kept["upgrades"]]
         return kept
 
     kept = CACHE.get_or_build(key, compute)
     return {**kept, "house": house, "_kept": kept}
-
-
-@event.listens_for(Session, "before_flush")
-def _touch_changed_houses(session: Session, _context: Any, _instances: Any) -> None:
-    """A change to a surface, upgrade or package is a change to its house (new version)."""
-    changed = [
-        item
-        for item in (*session.new, *session.dirty, *session.deleted)
-        if isinstance(item, (Surface, Upgrade, Package))
-    ]
-    if not changed:
-        return
-    skip = {id(h) for h in (*session.new, *session.dirty, *session.deleted) if isinstance(h, House)}
-    for item in changed:
-        house = item.__dict__.get("house")  # loaded already, or in the session, or one lookup
-        if house is None and item.house_id is not None:
-            house = session.identity_map.get(identity_key(House, item.house_id))
-            if house is None:
-                with session.no_autoflush:
-                    house = session.get(House, item.house_id)
-        if house is not None and id(house) not in skip:
-            house.updated_at = utcnow()
-            skip.add(id(house))

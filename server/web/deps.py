@@ -16,53 +16,45 @@ route cannot forget them; ``CurrentUser``/``OrgDep`` on a route say the same thi
 
 from __future__ import annotations
 
-from collections.abc import AsyncIterator, Callable
-from dataclasses import dataclass
-from typing import Annotated, Any, TypeVar
+from typing import Annotated, Any
 
-import anyio
 from fastapi import Depends, Request
 from fastapi.templating import Jinja2Templates
 from jinja2 import pass_context
 from markupsafe import Markup
-from sqlalchemy.orm import Session
-from starlette.concurrency import run_in_threadpool
 from starlette.datastructures import FormData
 
 from server.config import ROOT
-from server.models import Organization, User
+from server.deps import (  # shared with the API; re-exported here for the pages
+    CurrentUser,
+    OrgDep,
+    SessionDep,
+    SignInRequired,
+    Viewer,
+    get_current_user,
+    get_organization,
+    get_session,
+    require_user,
+    run_unit,
+)
+from server.errors import NotFound
+from server.models import User
 from server.security import CSRF_FIELD, CSRF_HEADER, tokens_match
-from server.services import accounts
-from server.services.houses import NotFound
 from server.web import formatting
 from server.web.idempotency import idempotency_field
 
+__all__ = [  # what the pages import from here (the first ten are server.deps' own)
+    "CurrentUser", "OrgDep", "SessionDep", "SignInRequired", "Viewer", "get_current_user",
+    "get_organization", "get_session", "require_user", "run_unit",
+    "AdminUser", "CsrfRejected", "PostedFields", "PostedForm", "csrf_field", "csrf_protect",
+    "csrf_token", "current_user", "is_public", "make_templates", "posted_fields", "posted_form",
+    "render", "require_admin", "signed_in_gate",
+]  # fmt: skip
 SAFE_METHODS = frozenset({"GET", "HEAD", "OPTIONS", "TRACE"})
 PUBLIC_PATHS = frozenset({"/login", "/healthz", "/openapi.json", "/docs", "/docs/oauth2-redirect",
                           "/redoc"})  # fmt: skip
 PUBLIC_PREFIXES = ("/s/", "/static/", "/api/v1/calc/")
 CSRF_EXEMPT_PREFIXES = ("/api/v1/calc/",)  # stateless, public, called by other tools
-_UNSET = object()
-T = TypeVar("T")
-
-
-@dataclass(frozen=True, slots=True)
-class Viewer:
-    """The signed-in user as templates see it: plain values that outlive the DB session (error
-    pages render after the session has rolled back)."""
-
-    id: int
-    email: str
-    name: str
-    role: str
-
-    @classmethod
-    def of(cls, user: User) -> Viewer:
-        return cls(id=user.id, email=user.email, name=user.name, role=user.role)
-
-
-class SignInRequired(Exception):
-    """No valid session for a route that needs one (303 to /login, or 401 for the API)."""
 
 
 class CsrfRejected(Exception):
@@ -74,104 +66,6 @@ def is_public(path: str) -> bool:
     return path in PUBLIC_PATHS or path == "/s" or path.startswith(PUBLIC_PREFIXES)
 
 
-async def get_session(request: Request) -> AsyncIterator[Session]:
-    """One session per request; committed when the route returns without error.
-
-    Async on purpose: making a session does no I/O (it connects on its first query, inside a
-    route's threadpool hop), so only the ending, which may talk to the database, takes a hop,
-    and none when the request never touched the database.
-    """
-    session: Session = request.app.state.session_factory()
-    try:
-        yield session
-    except BaseException:
-        await _finish(session, commit=False)
-        raise
-    await _finish(session, commit=True)
-
-
-async def _finish(session: Session, *, commit: bool) -> None:
-    if not session.in_transaction() and not (session.new or session.dirty or session.deleted):
-        session.close()  # never connected, nothing pending: no I/O
-        return
-    with anyio.CancelScope(shield=True):  # a client gone away must not leak a connection
-        await run_in_threadpool(_end, session, commit)
-
-
-def _end(session: Session, commit: bool) -> None:
-    try:
-        if commit:
-            session.commit()
-        else:
-            session.rollback()
-    except Exception:
-        session.rollback()
-        raise
-    finally:
-        session.close()
-
-
-async def run_unit(session: Session, work: Callable[[], T]) -> T:
-    """``work()`` in the threadpool, then the session's transaction ended in that same hop:
-    committed when it returns, rolled back when it raises.
-
-    For async routes whose database work is one unit: one hop in all, where a sync route takes
-    two (its body, then the session dependency's commit). What the route does afterwards on the
-    event loop must not touch the database (loaded columns only).
-    """
-
-    def unit() -> T:
-        try:
-            value = work()
-            session.commit()
-        except BaseException:
-            session.rollback()
-            raise
-        return value
-
-    return await run_in_threadpool(unit)
-
-
-#: scope="function": the commit runs when the route returns, before the response is sent, so
-#: a 201/303 is never sent for a save that is not committed (tests/durability/test_crash.py)
-SessionDep = Annotated[Session, Depends(get_session, scope="function")]
-
-
-async def get_current_user(request: Request, session: SessionDep) -> User | None:
-    """The signed-in user, or None (no cookie, bad signature, expired, revoked or inactive).
-
-    Looked up once per request (the app-wide gate asks first; routes then get the same row),
-    with one threadpool hop, and none without a valid session cookie."""
-    cached: User | None | object = getattr(request.state, "user", _UNSET)
-    if cached is not _UNSET:
-        return cached if isinstance(cached, User) else None
-    data = getattr(request.state, "session_data", None)
-    found = None
-    if data is not None:
-        found = await run_in_threadpool(
-            accounts.user_for_session,
-            session=session,
-            user_id=data.user_id,
-            session_version=data.session_version,
-            nonce=data.nonce,
-        )
-    user = found[0] if found else None
-    request.state.organization = found[1] if found else None
-    request.state.user = user
-    request.state.viewer = Viewer.of(user) if user is not None else None
-    return user
-
-
-async def require_user(user: Annotated[User | None, Depends(get_current_user)]) -> User:
-    """The signed-in user; anyone else is sent to sign in (no I/O: runs on the event loop)."""
-    if user is None:
-        raise SignInRequired
-    return user
-
-
-CurrentUser = Annotated[User, Depends(require_user)]
-
-
 async def require_admin(user: CurrentUser) -> User:
     """A signed-in admin; staff get 404 (the page does not exist for them)."""
     if user.role != "admin":
@@ -180,23 +74,6 @@ async def require_admin(user: CurrentUser) -> User:
 
 
 AdminUser = Annotated[User, Depends(require_admin)]
-
-
-async def get_organization(
-    request: Request, session: SessionDep, user: CurrentUser
-) -> Organization:
-    """The signed-in user's firm: every firm-owned query is filtered on its id.
-
-    Async because it normally reads only what :func:`get_current_user` already loaded (one
-    threadpool hop fewer per request); the query below is a fallback run off the event loop.
-    """
-    org = getattr(request.state, "organization", None)
-    if isinstance(org, Organization) and org.id == user.organization_id:
-        return org
-    return await run_in_threadpool(accounts.organization_of, session=session, user=user)
-
-
-OrgDep = Annotated[Organization, Depends(get_organization)]
 
 
 async def posted_form(request: Request) -> FormData:

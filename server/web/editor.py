@@ -7,10 +7,10 @@ from typing import Any
 
 from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
-from server.errors import InputError
-from server.services.houses import Conflict
+from server.errors import Conflict, InputError
 from server.services.number_text import NumberTextError, read_integer
 from server.services.typical import typical_assemblies
+from server.web.conflicts import stale_form
 from server.web.forms import form_version
 from server.web.layer_form import (
     AssemblyForm,
@@ -89,10 +89,7 @@ def run_editor(
                 attach_error(form, err.field, err.message)
             status = 422
         except Conflict:
-            form.errors["version"] = (
-                "Someone else saved this house after you opened it, so nothing was saved. "
-                "Your entries are kept here: reload to see theirs, then enter yours again."
-            )
+            form.errors["version"] = stale_form()
             status = 409
     if status != 200:
         message = "Not saved: check the fields marked below."

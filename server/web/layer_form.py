@@ -12,9 +12,9 @@ from typing import Any
 
 from pydantic import ValidationError
 
-from server.api.errors import field_path
 from server.documents.assembly import AssemblyInput
 from server.documents.common import Units
+from server.errors import field_path
 from server.physics.units import INCH_M, format_inches
 from server.services.number_text import NumberTextError, read_decimal, read_length
 from server.web.forms import parse_length_field

@@ -55,7 +55,7 @@ def is_public_route(method: str, path: str) -> bool:
 
 
 def param_values(objects: FirmAObjects) -> dict[str, Any]:
-    from server.web.house_settings import SECTIONS
+    from server.web.settings_forms import SECTIONS
 
     return {
         "house_id": objects.house_id,

@@ -97,7 +97,9 @@ def test_bounds_messages() -> None:
     assert read_decimal("0", low=0.0) == 0.0
 
 
-@pytest.mark.parametrize(("text", "value"), [("30", 30), (" +7 ", 7), ("-3", -3), ("20.0", 20), ("1,000", 1000)])
+@pytest.mark.parametrize(
+    ("text", "value"), [("30", 30), (" +7 ", 7), ("-3", -3), ("20.0", 20), ("1,000", 1000)]
+)
 def test_integers(text: str, value: int) -> None:
     assert read_integer(text) == value
 

@@ -1,7 +1,7 @@
 """Switching a house's units never turns a value its form accepted into one the other refuses.
 
 The conversion is the one the units switch applies (server/services/convert.py); the forms are
-the House page's settings sections (server/web/house_settings.py) reading the text they show.
+the House page's settings sections (server/web/settings_forms.py) reading the text they show.
 """
 
 from __future__ import annotations
@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 
 from server.documents.house import DEGREE_DAYS, VOLUME, HouseDocument
 from server.services.convert import convert_value
-from server.web.house_settings import form_values, parse_section
+from server.web.settings_forms import form_values, parse_section
 from tests.utils.houses import big_house_document
 
 OTHER = {"ip": "si", "si": "ip"}
@@ -65,7 +65,9 @@ def test_a_metric_house_document_takes_a_small_volume() -> None:
 
 
 @given(st.sampled_from(["ip", "si"]), st.data())
-def test_every_accepted_volume_is_accepted_after_the_switch(units: str, data: st.DataObject) -> None:
+def test_every_accepted_volume_is_accepted_after_the_switch(
+    units: str, data: st.DataObject
+) -> None:
     low, high = VOLUME.ip if units == "ip" else VOLUME.si
     volume = data.draw(st.floats(min_value=low, max_value=high))
     assert _accepts_air(volume, units)

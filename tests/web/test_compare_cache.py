@@ -160,9 +160,9 @@ def test_skipping_the_single_upgrade_options_leaves_the_packages_unchanged() -> 
 def test_the_kept_page_shows_each_viewer_their_own_name_role_and_token(
     app: Any, viewer: Any
 ) -> None:
-    # The whole page is kept once per state of the house and role, with marks where the
-    # viewer's own values go (compare_cache.page_html). Three people of one firm, two roles,
-    # one without a name, one with markup in it: each sees only their own values.
+    # The body is kept once per state of the house and shown to every viewer; the page
+    # around it is each viewer's own. Three people of one firm, two roles, one without a
+    # name, one with markup in it: each sees only their own values.
     from server.security import CSRF_HEADER
     from server.services.accounts import create_user
 
@@ -183,7 +183,7 @@ def test_the_kept_page_shows_each_viewer_their_own_name_role_and_token(
             response = client.get(f"/houses/{viewer.house_id}/compare", headers=sent)
             assert response.status_code == 200
             pages.append((sent[CSRF_HEADER], response.text))
-    assert CACHE.hits >= 2  # the later views were kept pages
+    assert CACHE.hits >= 2  # the later views were kept bodies
     for i, (token, html) in enumerate(pages):
         role, name = people[i]
         shown = name.replace("<", "&lt;").replace(">", "&gt;") or f"person{i}@example.com"
@@ -193,13 +193,32 @@ def test_the_kept_page_shows_each_viewer_their_own_name_role_and_token(
         for j, (other_token, _other) in enumerate(pages):
             if j != i:
                 assert other_token not in html
-        for mark in (compare_cache.NAME_MARK, compare_cache.EMAIL_MARK, compare_cache.CSRF_MARK):
-            assert mark not in html
     assert "<b>Admin</b>" not in pages[0][1]  # the name is escaped, never markup
 
 
-def test_the_kept_page_may_read_nothing_else_of_the_request() -> None:
-    marks = compare_cache.ViewerMarks("staff", has_name=True)
-    assert marks.state.csrf_token == compare_cache.CSRF_MARK
-    with pytest.raises(RuntimeError, match="request.headers"):
-        _ = marks.headers  # type: ignore[attr-defined]
+def test_the_kept_body_may_read_nothing_of_the_request() -> None:
+    # It is shown to every viewer: a CSRF token or name read while rendering it would leak.
+    shared = compare_cache.SharedRender()
+    with pytest.raises(RuntimeError, match=r"request\.state"):
+        _ = shared.state
+    with pytest.raises(RuntimeError, match="must not test the request"):
+        bool(shared)
+
+
+def test_the_flush_hook_comes_with_the_houses_service_not_the_web_layer() -> None:
+    # A process that stores houses without the web app (a script, the CLI) must still mark a
+    # house changed when only a child row changes, or every process's kept pages go stale.
+    import subprocess
+    import sys
+
+    code = (
+        "import sys\n"
+        "from sqlalchemy import event\n"
+        "from sqlalchemy.orm import Session\n"
+        "import server.services.houses\n"
+        "from server.services.house_changes import touch_changed_houses\n"
+        "assert event.contains(Session, 'before_flush', touch_changed_houses)\n"
+        "assert not [m for m in sys.modules if m.startswith('server.web')], 'web imported'\n"
+    )
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert done.returncode == 0, done.stderr

@@ -68,7 +68,7 @@ def test_units_switch_from_a_stale_tab_is_a_conflict(app, client: TestClient) ->
     for units in ("ip", "si"):
         r = client.post(f"{house}/units", data={"units": units, "version": old})
         assert r.status_code == 409
-        assert "Someone else changed this house" in r.text and "units were not switched" in r.text
+        assert "Someone else saved this house" in r.text and "units were not switched" in r.text
         assert _stored(app, house_id) == saved  # nothing converted, no version bump
     assert saved[1] == "si"
 

@@ -5,11 +5,11 @@ from __future__ import annotations
 from fastapi import APIRouter, Depends
 
 from server.api.errors import ERROR_RESPONSES, NOT_FOUND_RESPONSES, SIGNED_IN_RESPONSES
+from server.deps import SessionDep, get_organization
 from server.documents.house import HouseDocument
 from server.models import Organization
 from server.services.house_document import house_document, import_house
 from server.services.houses import get_house
-from server.web.deps import SessionDep, get_organization
 
 router = APIRouter(tags=["houses"])
 

@@ -6,31 +6,19 @@ from fastapi import APIRouter, Request
 from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
-from server.physics.code_targets import SURFACE_KINDS
-from server.services.firm_code_targets import own_keys, reset_row, rows_for, save_row
+from server.services.firm_code_targets import reset_row, save_row
 from server.services.number_text import NumberTextError, read_integer
 from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.forms import parse_float
+from server.web.pages.code_targets import code_targets_context
 
 router = APIRouter()
-KIND_LABELS = {
-    "ceiling": "Ceiling / attic", "wood_frame_wall": "Wood-frame wall", "mass_wall": "Mass wall",
-    "floor": "Floor", "basement_wall": "Basement wall", "crawlspace_wall": "Crawlspace wall",
-    "slab": "Slab (R, depth)", "fenestration": "Windows (U)",
-}  # fmt: skip
-
-
-def _context(session, org, form=None, errors=None) -> dict:  # type: ignore[no-untyped-def]
-    rows = rows_for(session=session, organization_id=org.id)
-    table = {(r.climate_zone, r.surface_kind): r for r in rows}
-    return {"table": table, "zones": list(range(9)), "kinds": SURFACE_KINDS, "kind_labels": KIND_LABELS,
-            "own": own_keys(session=session, organization_id=org.id), "form": form or {}, "errors": errors or {},
-            "edition": next(iter(rows)).edition if rows else "", "nav": "code-targets"}  # fmt: skip
 
 
 @router.get("/code-targets", name="code_targets")
 def code_targets_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
-    return render(request, "pages/code_targets.html", _context(session, org))
+    context = code_targets_context(session=session, organization_id=org.id)
+    return render(request, "pages/code_targets.html", context)
 
 
 @router.post("/code-targets")
@@ -63,6 +51,5 @@ def save_code_target(request: Request, session: SessionDep, org: OrgDep, data: P
             return RedirectResponse("/code-targets#t-" + f"{zone}-{kind}", status_code=303)
         except InputError as exc:
             errors[exc.field] = exc.message
-    return render(
-        request, "pages/code_targets.html", _context(session, org, data, errors), status_code=422
-    )
+    context = code_targets_context(session=session, organization_id=org.id, form=data, errors=errors)
+    return render(request, "pages/code_targets.html", context, status_code=422)

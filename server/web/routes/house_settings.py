@@ -3,49 +3,43 @@
 from __future__ import annotations
 
 import re
+from typing import Any
 
 from fastapi import APIRouter, Request, UploadFile
-from fastapi.responses import RedirectResponse
+from fastapi.responses import RedirectResponse, Response
+from sqlalchemy.orm import Session
 
 from server.errors import InputError
+from server.models import House, Organization
 from server.services import houses as svc
 from server.services.climate import compute_degree_days
+from server.services.house_sections import save_house_section, set_climate_from_weather
 from server.services.number_text import NumberTextError, read_decimal
-from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep, render
+from server.web.conflicts import stale_form
+from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep
 from server.web.forms import form_version
-from server.web.house_settings import COLUMNS, SECTIONS, form_values, parse_section
+from server.web.pages.house import house_context
+from server.web.pages.settings import settings_context
+from server.web.render import is_htmx, page_or_fragment
+from server.web.settings_forms import COLUMNS, SECTIONS, parse_section
 
 router = APIRouter()
 MAX_WEATHER_BYTES = 20 * 1024 * 1024
+WEATHER_STALE = stale_form("the weather file was not used",
+                           then="Reload to see their change, then load the file again.")  # fmt: skip
 
 
-def settings_context(
-    house, *, section: str = "", typed=None, errors=None, message: str = ""
-) -> dict:  # type: ignore[no-untyped-def]
-    """Context for templates/partials/house_settings.html."""
-    sections = []
-    for key, (title, _model, fields) in SECTIONS.items():
-        stored = getattr(house, COLUMNS[key]) or {}
-        values = (typed if (key == section and typed is not None)
-                  else form_values(key, stored, house.units))  # fmt: skip
-        sections.append({"key": key, "title": title, "fields": fields, "values": values,
-                         "errors": (errors or {}) if key == section else {}})  # fmt: skip
-    weather = (house.climate or {}).get("weather")
-    vb = (house.climate or {}).get("variable_base") or {}
-    return {"house": house, "sections": sections, "weather": weather, "settings_message": message,
-            "settings_section": section, "balance": vb}  # fmt: skip
-
-
-def _respond(request: Request, session, org, house, ctx: dict, status: int):  # type: ignore[no-untyped-def]
-    if request.headers.get("HX-Request") == "true":
-        return render(request, "partials/house_settings.html", ctx)
-    if status == 200:
+def _respond(request: Request, session: Session, org: Organization, house: House,
+             ctx: dict[str, Any], status: int) -> Response:  # fmt: skip
+    """htmx: the section alone; a saved form: back to the House page; a rejected one: the whole
+    House page with the section's messages and what was typed."""
+    if status == 200 and not is_htmx(request):
         return RedirectResponse(f"/houses/{house.id}#settings", status_code=303)
-    from server.web.routes.houses import _house_context  # the full page, with the messages
-
-    full = _house_context(session, org, house.id)
-    full.update(ctx)
-    return render(request, "pages/house.html", full, status_code=status)
+    return page_or_fragment(
+        request, page="pages/house.html", fragment="partials/house_settings.html", context=ctx,
+        page_context=lambda: house_context(session=session, organization_id=org.id, house_id=house.id),
+        status_code=status,
+    )  # fmt: skip
 
 
 @router.post("/houses/{house_id}/settings/{section}")
@@ -77,19 +71,16 @@ def save_section(
             doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
             if zone:
                 doc["climate_zone"] = zone
-        try:
-            svc.check_version(house, version)
-            setattr(house, COLUMNS[section], doc)
-            svc.touch(house)  # written now: Conflict when another save of the house came first
+        try:  # written now: Conflict for a stale form or when another save came first
+            save_house_section(house=house, section=section, document=doc, expected_version=version)
         except svc.Conflict:
-            errors = {"form": "Someone else saved this house after you opened it: nothing was "
-                              "saved. Your entries are kept; reload to see theirs."}  # fmt: skip
+            errors = {"form": stale_form()}
             doc = None
     if doc is None:
-        ctx = settings_context(house, section=section, typed=data, errors=errors,
+        ctx = settings_context(house=house, section=section, typed=data, errors=errors,
                                message="Not saved: check the marked fields.")  # fmt: skip
         return _respond(request, session, org, house, ctx, 409 if "form" in errors and version_ok else 422)
-    ctx = settings_context(house, section=section, message=f"{SECTIONS[section][0]} saved.")
+    ctx = settings_context(house=house, section=section, message=f"{SECTIONS[section][0]} saved.")
     return _respond(request, session, org, house, ctx, 200)
 
 
@@ -141,42 +132,19 @@ def upload_weather(
             file.file, units=house.units, heating_base=None, cooling_base=None
         )
     except InputError as exc:
-        ctx = settings_context(house, section="climate", errors={"file": exc.message},
+        ctx = settings_context(house=house, section="climate", errors={"file": exc.message},
                                message="The weather file was not used.")  # fmt: skip
         return _respond(request, session, org, house, ctx, 422)
     except svc.Conflict:
-        ctx = settings_context(
-            house,
-            section="climate",
-            errors={"form": "Someone else saved this house; reload first."},
-        )
+        ctx = settings_context(house=house, section="climate", errors={"form": WEATHER_STALE})
         return _respond(request, session, org, house, ctx, 409)
-    climate = {
-        "hdd": round(result.hdd, 1),
-        "cdd": round(result.cdd, 1),
-        "heating_base": result.heating_base,
-        "cooling_base": result.cooling_base,
-        "weather": {
-            "file": (file.filename or "")[:200],
-            "kind": result.kind,
-            "station": result.station,
-            "days": result.days,
-            "heating_design_temperature": result.heating_design_temperature,
-            "cooling_design_temperature": result.cooling_design_temperature,
-            "climate_zone": result.climate_zone,
-            "climate_zone_name": result.climate_zone_name,
-            "warnings": result.warnings[:10],
-            "degree_days_by_base": [row.model_dump() for row in result.degree_days_by_base],
-        },
-    }
-    house.climate = climate
-    try:
-        svc.touch(house)  # written now: Conflict when another save of the house came first
+    try:  # written now: Conflict when another save of the house came first
+        set_climate_from_weather(house=house, result=result, file_name=file.filename or "",
+                                 expected_version=version)  # fmt: skip
     except svc.Conflict:
-        ctx = settings_context(house, section="climate",
-                               errors={"form": "Someone else saved this house; reload first."})  # fmt: skip
+        ctx = settings_context(house=house, section="climate", errors={"form": WEATHER_STALE})
         return _respond(request, session, org, house, ctx, 409)
     name = result.station or file.filename or "the file"
-    ctx = settings_context(house, section="climate", message=f"Climate read from {name}: "
+    ctx = settings_context(house=house, section="climate", message=f"Climate read from {name}: "
                            f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
     return _respond(request, session, org, house, ctx, 200)

@@ -7,17 +7,17 @@ from fastapi.responses import RedirectResponse
 
 from server.errors import InputError
 from server.physics.units import k_ip_to_si, r_ip_to_si
-from server.services.library import add_material, list_materials
+from server.services.library import add_material
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.forms import parse_float
+from server.web.pages.library import library_context
 
 router = APIRouter()
 
 
 @router.get("/library", name="library")
 def library_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
-    materials = list_materials(session=session, organization_id=org.id)
-    return render(request, "pages/library.html", {"materials": materials, "form": {}, "errors": {}})
+    return render(request, "pages/library.html", library_context(session=session, organization_id=org.id))
 
 
 @router.post("/library")
@@ -47,7 +47,6 @@ def add_library_material(  # type: ignore[no-untyped-def]
             return RedirectResponse("/library", status_code=303)
         except InputError as exc:
             errors["value" if exc.field in ("conductivity", "r") else exc.field] = exc.message
-    materials = list_materials(session=session, organization_id=org.id)
     form = {
         "name": name,
         "category": category,
@@ -56,9 +55,5 @@ def add_library_material(  # type: ignore[no-untyped-def]
         "units": units,
         "source": source,
     }
-    return render(
-        request,
-        "pages/library.html",
-        {"materials": materials, "form": form, "errors": errors},
-        status_code=422,
-    )
+    context = library_context(session=session, organization_id=org.id, form=form, errors=errors)
+    return render(request, "pages/library.html", context, status_code=422)

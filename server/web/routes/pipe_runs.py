@@ -9,8 +9,11 @@ from server.errors import InputError
 from server.services import houses as svc
 from server.services import idempotency as idem
 from server.services import upgrades as upg
+from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import CurrentUser, OrgDep, PostedFields, SessionDep, render
 from server.web.forms import form_version, parse_float, parse_length_field
+from server.web.pages.house import house_context
+from server.web.pages.pipe_run import pipe_run_context
 
 router = APIRouter()
 
@@ -62,12 +65,10 @@ def add_pipe_run(
         except InputError as exc:
             errors[exc.field.split(".")[-1]] = exc.message
         except svc.Conflict:
-            errors["form"] = "Someone else saved this house after you opened it; nothing was saved."
-    from server.web.routes.houses import _house_context
-
-    ctx = _house_context(session, org, house.id)
+            errors["form"] = stale_form()
+    ctx = house_context(session=session, organization_id=org.id, house_id=house.id)
     ctx["pipe_errors"], ctx["pipe_form"] = errors, data
-    return render(request, "pages/house.html", ctx, status_code=409 if "form" in errors else 422)
+    return render(request, "pages/house.html", ctx, status_code=rejected_status(errors))
 
 
 @router.post("/houses/{house_id}/pipes/{surface_id}/insulate")
@@ -102,9 +103,6 @@ def insulate_pipe(
         except InputError as exc:
             errors[exc.field] = exc.message
         except svc.Conflict:
-            errors["form"] = "Someone else saved this house after you opened it; nothing was saved."
-    from server.web.routes.surfaces import pipe_run_context
-
-    ctx = pipe_run_context(session, org, house, surface)
-    ctx["insulate_errors"], ctx["insulate_form"] = errors, data
-    return render(request, "pages/pipe_run.html", ctx, status_code=409 if "form" in errors else 422)
+            errors["form"] = stale_form()
+    ctx = pipe_run_context(house=house, surface=surface, insulate_form=data, insulate_errors=errors)
+    return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))

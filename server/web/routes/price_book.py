@@ -11,8 +11,11 @@ from server.errors import InputError
 from server.services import houses as svc
 from server.services import price_book as book
 from server.services.number_text import NumberTextError, read_decimal
+from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.forms import form_version
+from server.web.pages.price_book import price_book_context
+from server.web.pages.quote import quote_context
 
 router = APIRouter()
 FIELDS = ("name", "upgrade_type", "basis", "units", "unit_cost", "fixed_cost", "notes")
@@ -43,38 +46,10 @@ def _values(form: dict[str, str], errors: dict[str, str]) -> dict[str, Any]:
     }  # fmt: skip
 
 
-def item_form(item: Any) -> dict[str, str]:
-    """A row as the strings its edit form shows."""
-    return {"name": item.name, "upgrade_type": item.upgrade_type, "basis": item.basis,
-            "units": item.units, "unit_cost": f"{item.unit_cost:g}",
-            "fixed_cost": f"{item.fixed_cost:g}", "notes": item.notes}  # fmt: skip
-
-
-def page_context(session, org, *, form=None, errors=None, edit_id=None, edit_form=None,
-                 edit_errors=None, message="") -> dict[str, Any]:  # type: ignore[no-untyped-def]  # fmt: skip
-    items = book.list_items(session=session, organization_id=org.id)
-    return {
-        "items": [
-            {
-                "item": i,
-                "example": book.is_example(i),
-                "form": edit_form if i.id == edit_id and edit_form else item_form(i),
-                "errors": edit_errors if i.id == edit_id and edit_errors else {},
-            }  # fmt: skip
-            for i in items
-        ],
-        "form": form or {"units": "ip", "basis": "per_area", "upgrade_type": "attic_fill"},
-        "errors": errors or {},
-        "types": book.UPGRADE_TYPES,
-        "bases": book.BASES,
-        "message": message,
-        "edit_id": edit_id,
-    }
-
-
 @router.get("/price-book", name="price_book")
 def price_book_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
-    return render(request, "pages/price_book.html", page_context(session, org))
+    context = price_book_context(session=session, organization_id=org.id)
+    return render(request, "pages/price_book.html", context)
 
 
 def _form(name, upgrade_type, basis, units, unit_cost, fixed_cost, notes) -> dict[str, str]:  # type: ignore[no-untyped-def]
@@ -98,9 +73,8 @@ def add_item(  # type: ignore[no-untyped-def]
             return RedirectResponse("/price-book", status_code=303)
         except InputError as exc:
             errors = _errors(exc)
-    ctx = page_context(
-        session, org, form=form, errors=errors, message="Not added: check the marked fields."
-    )
+    ctx = price_book_context(session=session, organization_id=org.id, form=form, errors=errors,
+                             message="Not added: check the marked fields.")  # fmt: skip
     return render(request, "pages/price_book.html", ctx, status_code=422)
 
 
@@ -126,8 +100,8 @@ def update_item(  # type: ignore[no-untyped-def]
             return RedirectResponse(f"/price-book#item-{item_id}", status_code=303)
         except InputError as exc:
             errors = _errors(exc)
-    ctx = page_context(session, org, edit_id=item_id, edit_form=form, edit_errors=errors,
-                       message="Not saved: check the marked fields.")  # fmt: skip
+    ctx = price_book_context(session=session, organization_id=org.id, edit_id=item_id, edit_form=form,
+                             edit_errors=errors, message="Not saved: check the marked fields.")  # fmt: skip
     return render(request, "pages/price_book.html", ctx, status_code=422)
 
 
@@ -149,31 +123,17 @@ def fill_from_price_book(  # type: ignore[no-untyped-def]
         raise svc.NotFound
     target = back if back.startswith(f"/houses/{house.id}/") else f"/houses/{house.id}"
     try:
-        svc.check_version(house, form_version({"version": version}))
-        if price_item:
-            items = {i.slug: i for i in book.list_items(session=session, organization_id=org.id)}
-            if price_item not in items:
-                raise InputError("price_item", "there is no such item in the price book")
-            document = book.apply_price_item(upgrade.document, items[price_item], units=house.units)
-        else:
-            document = {k: v for k, v in upgrade.document.items() if k != "price_item"}
-        upgrade.document = document
-        svc.touch(house)  # written now: Conflict when another save of the house came first
+        book.link_price_item(session=session, organization_id=org.id, house=house, upgrade=upgrade,
+                             price_item=price_item, expected_version=form_version({"version": version}))  # fmt: skip
     except (InputError, svc.Conflict) as exc:
-        message = (
-            "Someone else changed this house since you opened it: nothing was saved. Reload "
-            "and try again."
-            if isinstance(exc, svc.Conflict)
-            else exc.message
-        )
-        from server.web.routes.quote import quote_response  # the page the form was on
-
-        slug = target.rstrip("/").rsplit("/", 1)[-1] if "/quote/" in target else None
-        if slug:
-            return quote_response(request, session, org, house, slug,
-                                  fill_error={"upgrade": upgrade.slug, "message": message},
-                                  status_code=409 if isinstance(exc, svc.Conflict) else 422)  # fmt: skip
-        ctx = page_context(session, org, message=f"Cost not filled for '{upgrade.name}': {message}")
+        message = stale_form() if isinstance(exc, svc.Conflict) else exc.message
         status = 409 if isinstance(exc, svc.Conflict) else 422
+        slug = target.rstrip("/").rsplit("/", 1)[-1] if "/quote/" in target else None
+        if slug:  # the page the form was on
+            quote = quote_context(session=session, organization=org, house=house, package_slug=slug,
+                                  fill_error={"upgrade": upgrade.slug, "message": message})  # fmt: skip
+            return render(request, "pages/quote.html", quote, status_code=status)
+        ctx = price_book_context(session=session, organization_id=org.id,
+                                 message=f"Cost not filled for '{upgrade.name}': {message}")  # fmt: skip
         return render(request, "pages/price_book.html", ctx, status_code=status)
     return RedirectResponse(target, status_code=303)

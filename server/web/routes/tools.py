@@ -5,12 +5,13 @@ from __future__ import annotations
 from fastapi import APIRouter, Request
 from pydantic import ValidationError
 
-from server.api.errors import field_path
 from server.documents.pipe import PipeRequest
-from server.errors import InputError
+from server.errors import InputError, field_path
 from server.services.pipe import compute_pipe
 from server.web.deps import PostedFields, render
 from server.web.forms import parse_float, parse_length_field
+from server.web.pages.pipe_tool import pipe_tool_context
+from server.web.render import page_or_fragment
 
 router = APIRouter()
 
@@ -71,11 +72,7 @@ def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-d
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
     result = compute_pipe(req) if req else None
-    return render(
-        request,
-        "pages/pipe.html",
-        {"form": form, "errors": errors, "result": result, "nav": "pipe"},
-    )
+    return render(request, "pages/pipe.html", pipe_tool_context(form=form, errors=errors, result=result))
 
 
 @router.post("/tools/pipe")
@@ -89,12 +86,8 @@ def pipe_compute(request: Request, form: PostedFields):  # type: ignore[no-untyp
         except InputError as exc:
             for err in exc.errors():
                 errors[err.field.split(".")[-1]] = err.message
-    htmx = request.headers.get("HX-Request") == "true"
-    template = "partials/pipe_result.html" if htmx else "pages/pipe.html"
-    status = 200 if (htmx or not errors) else 422
-    return render(
-        request,
-        template,
-        {"form": form, "errors": errors, "result": result, "nav": "pipe"},
-        status_code=status,
-    )
+    return page_or_fragment(
+        request, page="pages/pipe.html", fragment="partials/pipe_result.html",
+        context=pipe_tool_context(form=form, errors=errors, result=result),
+        status_code=422 if errors else 200,
+    )  # fmt: skip

@@ -8,24 +8,20 @@ from typing import cast
 from fastapi import APIRouter, Request
 from fastapi.responses import RedirectResponse
 
-from server.documents.assembly import AssemblyInput
 from server.documents.common import Units
 from server.errors import InputError
 from server.services import houses as svc
 from server.services import idempotency as idem
 from server.services import upgrades as upg
-from server.services.assembly import evaluate_assembly
-from server.services.cautions import cautions_for
-from server.services.code_check import code_verdict
-from server.services.firm_code_targets import rows_for
-from server.services.library import catalog_for, list_materials
+from server.services.library import catalog_for
 from server.services.number_text import NumberTextError, read_integer
-from server.services.price_book import list_items
-from server.services.typical import typical_assemblies
+from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import CurrentUser, OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
-from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, form_from_document
+from server.web.pages.house import house_context
+from server.web.pages.upgrade import upgrade_context
+from server.web.render import is_htmx, page_or_fragment
 
 router = APIRouter()
 
@@ -40,44 +36,6 @@ def _number(
             errors[key] = "required"
         return None if optional else 0.0
     return parse_float(text, key, errors, positive=False, units=units)
-
-
-def _upgrade_context(
-    session, org, house, upgrade, form=None, result=None, message="", errors=None, catalog=None
-):  # type: ignore[no-untyped-def]
-    if catalog is None:
-        catalog = catalog_for(session=session, organization_id=org.id)
-    surface = next((s for s in house.surfaces if s.id == upgrade.surface_id), None)
-    before = None
-    if surface is not None:
-        try:
-            before = evaluate_assembly(
-                AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
-            )
-        except (InputError, ValueError):
-            before = None
-    if upgrade.document.get("assembly") is not None:
-        if form is None:
-            form = form_from_document(upgrade.document["assembly"], house.units)
-        if result is None and not form.has_errors:
-            try:
-                result = evaluate_assembly(AssemblyInput.model_validate(upgrade.document["assembly"]),
-                                           units=house.units, catalog=catalog)  # fmt: skip
-            except (InputError, ValueError):
-                result = None
-    kinds = [surface.kind] if surface else []
-    topics = ("air_sealing",) if upgrade.document.get("cfm50_after") else ()
-    return {
-        "house": house, "upgrade": upgrade, "surface": surface, "before": before, "form": form,
-        "result": result, "message": message, "errors": errors or {}, "units": house.units,
-        "editor_url": f"/houses/{house.id}/upgrades/{upgrade.id}/assembly",
-        "layer_types": LAYER_TYPES, "cavity_types": CAVITY_TYPES,
-        "materials": list_materials(session=session, organization_id=org.id),
-        "typicals": typical_assemblies(), "moisture": None,
-        "cautions": cautions_for(kinds, extra_topics=topics),
-        "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=org.id)) if surface else None,
-        "price_items": list_items(session=session, organization_id=org.id),
-    }  # fmt: skip
 
 
 @router.post("/houses/{house_id}/upgrades")
@@ -130,14 +88,10 @@ def add_upgrade(
     except InputError as exc:
         errors[exc.field] = exc.message
     except svc.Conflict:
-        errors["form"] = (
-            "Someone else saved this house after you opened it; nothing was saved. Reload and try again."
-        )
-    from server.web.routes.houses import _house_context
-
-    ctx = _house_context(session, org, house.id)
+        errors["form"] = stale_form()
+    ctx = house_context(session=session, organization_id=org.id, house_id=house.id)
     ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
-    return render(request, "pages/house.html", ctx, status_code=409 if "form" in errors else 422)
+    return render(request, "pages/house.html", ctx, status_code=rejected_status(errors))
 
 
 @router.get("/houses/{house_id}/upgrades/{upgrade_id}", name="upgrade")
@@ -146,7 +100,8 @@ def upgrade_page(
 ):  # type: ignore[no-untyped-def]
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
-    return render(request, "pages/upgrade.html", _upgrade_context(session, org, house, upgrade))
+    context = upgrade_context(session=session, organization_id=org.id, house=house, upgrade=upgrade)
+    return render(request, "pages/upgrade.html", context)
 
 
 @router.post("/houses/{house_id}/upgrades/{upgrade_id}")
@@ -179,12 +134,11 @@ def update_upgrade(
     except InputError as exc:
         errors[exc.field] = exc.message
     except svc.Conflict:
-        errors["form"] = (
-            "Someone else saved this house after you opened it; nothing was saved. Your entries are kept."
-        )
-    ctx = _upgrade_context(session, org, house, upgrade, errors=errors)
+        errors["form"] = stale_form()
+    ctx = upgrade_context(session=session, organization_id=org.id, house=house, upgrade=upgrade,
+                          errors=errors)  # fmt: skip
     ctx["detail_form"] = data
-    return render(request, "pages/upgrade.html", ctx, status_code=409 if "form" in errors else 422)
+    return render(request, "pages/upgrade.html", ctx, status_code=rejected_status(errors))
 
 
 @router.post("/houses/{house_id}/upgrades/{upgrade_id}/assembly")
@@ -208,15 +162,13 @@ def save_upgrade_assembly(
 
     units = cast(Units, house.units)  # the column holds only 'ip' or 'si'
     form, result, message, status = run_editor(data, units=units, save=save)
-    htmx = request.headers.get("HX-Request") == "true"
-    if not htmx and status == 200:
+    if not is_htmx(request) and status == 200:
         return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
-    ctx = _upgrade_context(
-        session, org, house, upgrade, form=form, result=result, message=message, catalog=catalog
-    )
+    ctx = upgrade_context(session=session, organization_id=org.id, house=house, upgrade=upgrade,
+                          form=form, result=result, message=message, catalog=catalog)  # fmt: skip
     ctx["saved"] = status == 200  # the fragment then says which house version it stored
-    template = "partials/layer_editor.html" if htmx else "pages/upgrade.html"
-    return render(request, template, ctx, status_code=200 if htmx else status)
+    return page_or_fragment(request, page="pages/upgrade.html", fragment="partials/layer_editor.html",
+                            context=ctx, status_code=status)  # fmt: skip
 
 
 def _package_id(text: str) -> int:
@@ -258,10 +210,8 @@ def add_package(
     except (InputError, ValueError) as exc:
         errors["package"] = exc.message if isinstance(exc, InputError) else "unknown package"
     except svc.Conflict:
-        errors["package"] = "Someone else saved this house after you opened it; nothing was saved."
+        errors["package"] = stale_form()
         status = 409
-    from server.web.routes.houses import _house_context
-
-    ctx = _house_context(session, org, house.id)
+    ctx = house_context(session=session, organization_id=org.id, house_id=house.id)
     ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
     return render(request, "pages/house.html", ctx, status_code=status)

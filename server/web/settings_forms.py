@@ -12,7 +12,6 @@ from typing import Any
 
 from pydantic import BaseModel, ValidationError
 
-from server.api.errors import field_path
 from server.documents.common import UnitSpan
 from server.documents.house import (
     DEGREE_DAYS,
@@ -23,7 +22,9 @@ from server.documents.house import (
     EconomicsIn,
     HeatingIn,
 )
+from server.errors import field_path
 from server.physics.fuels import FUELS
+from server.services.house_sections import SECTION_COLUMNS
 from server.services.number_text import NumberTextError, read_decimal, read_integer
 
 
@@ -75,8 +76,7 @@ SECTIONS: dict[str, tuple[str, type[BaseModel], tuple[Field_, ...]]] = {
         Field_("loan.years", "Loan term", "years", "years", integer=True, optional=True),
     )),
 }  # fmt: skip
-COLUMNS = {"climate": "climate", "heating": "heating", "cooling": "cooling",
-           "air_leakage": "air_leakage", "economics": "economics"}  # fmt: skip
+COLUMNS = SECTION_COLUMNS  # the House column each section is stored in
 
 
 def _get(doc: dict[str, Any] | None, path: str) -> Any:

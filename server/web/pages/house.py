@@ -1,0 +1,50 @@
+"""The Houses list and the House page (templates/pages/houses.html, pages/house.html)."""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from typing import Any
+
+from sqlalchemy.orm import Session
+
+from server.services import houses as svc
+from server.services.firm_code_targets import rows_for
+from server.services.library import catalog_for
+from server.services.typical import typical_assemblies
+from server.web.pages.settings import settings_context
+from server.web.pages.sharing import share_context
+
+
+def houses_context(
+    *,
+    session: Session,
+    organization_id: int,
+    query: str = "",
+    form: Mapping[str, str] | None = None,
+    errors: Mapping[str, str] | None = None,
+) -> dict[str, Any]:
+    """The firm's houses matching ``query``, and the new-house form (typed text kept)."""
+    rows = svc.list_houses(session=session, organization_id=organization_id, query=query)
+    return {"rows": rows, "q": query, "form": form or {}, "errors": errors or {}}
+
+
+def house_context(*, session: Session, organization_id: int, house_id: int) -> dict[str, Any]:
+    """Everything the House page shows: surfaces with their UA, pipe runs, the settings and
+    share-links sections, and empty add-forms (a route puts a rejected form's text over them)."""
+    house = svc.get_house(session=session, organization_id=organization_id, house_id=house_id)
+    catalog = catalog_for(session=session, organization_id=organization_id)
+    rows, total_ua = svc.surface_rows(
+        house, catalog, rows_for(session=session, organization_id=organization_id)
+    )
+    return {
+        **settings_context(house=house),
+        **share_context(session=session, organization_id=organization_id, house=house),
+        "house": house,
+        "rows": rows,
+        "total_ua": total_ua,
+        "pipes": svc.pipe_rows(house),
+        "kinds": svc.SURFACE_KINDS,
+        "typicals": typical_assemblies(),
+        "form": {},
+        "errors": {},
+    }

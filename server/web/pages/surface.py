@@ -1,0 +1,90 @@
+"""The Surface page (templates/pages/surface.html; partials/layer_editor.html for htmx)."""
+
+from __future__ import annotations
+
+from typing import Any, cast
+
+from sqlalchemy.orm import Session
+
+from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.common import Units
+from server.errors import InputError
+from server.models import House, Surface
+from server.services import houses as svc
+from server.services.assembly import evaluate_assembly
+from server.services.catalog import Catalog
+from server.services.cautions import cautions_for
+from server.services.code_check import code_verdict
+from server.services.firm_code_targets import rows_for
+from server.services.library import list_materials
+from server.services.moisture import check_assembly_moisture
+from server.services.typical import typical_assemblies
+from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, AssemblyForm
+from server.web.svg_condensation import condensation_svg
+
+
+def _units(house: House) -> Units:
+    return cast(Units, house.units)  # the column holds only 'ip' or 'si'
+
+
+def saved_result(*, house: House, surface: Surface, catalog: Catalog) -> AssemblyResult | None:
+    """The saved assembly's result, or None when it cannot be computed."""
+    try:
+        return evaluate_assembly(
+            AssemblyInput.model_validate(surface.assembly), units=_units(house), catalog=catalog
+        )
+    except (InputError, ValueError):
+        return None
+
+
+def moisture_context(
+    *, house: House, surface: Surface, result: AssemblyResult | None, catalog: Catalog
+) -> dict[str, Any] | None:
+    """The dew-point check of the saved assembly, or None when it cannot be computed."""
+    if result is None:
+        return None
+    try:
+        doc = AssemblyInput.model_validate(surface.assembly)
+        design = ((house.climate or {}).get("weather") or {}).get("heating_design_temperature")
+        check = check_assembly_moisture(doc, result, units=_units(house), catalog=catalog,
+                                        outdoor_design_temperature=design)  # fmt: skip
+    except (ValueError, InputError):
+        return None
+    return {"check": check, "svg": condensation_svg(check.result, units=_units(house))}
+
+
+def surface_context(
+    *,
+    session: Session,
+    organization_id: int,
+    house: House,
+    surface: Surface,
+    form: AssemblyForm,
+    result: AssemblyResult | None,
+    catalog: Catalog,
+    message: str = "",
+) -> dict[str, Any]:
+    """The layer editor with ``form`` (the saved assembly's, or what was typed), its result,
+    the dew-point check, the code target's verdict and the cautions of the surface's kind."""
+    return {
+        "moisture": None if form.has_errors else moisture_context(
+            house=house, surface=surface, result=result, catalog=catalog
+        ),
+        "code": code_verdict(
+            house.climate, surface.kind, result, rows_for(session=session, organization_id=organization_id)
+        ),
+        "cautions": cautions_for([surface.kind]),
+        "house": house,
+        "surface": surface,
+        "editor_url": f"/houses/{house.id}/surfaces/{surface.id}/assembly",
+        "upgrades": [u for u in house.upgrades if u.surface_id == surface.id],
+        "form": form,
+        "result": result,
+        "message": message,
+        "layer_types": LAYER_TYPES,
+        "cavity_types": CAVITY_TYPES,
+        "materials": list_materials(session=session, organization_id=organization_id),
+        "kinds": svc.SURFACE_KINDS,
+        "typicals": typical_assemblies(),
+        "units": house.units,
+    }  # fmt: skip
