@@ -27,8 +27,12 @@ def main() -> int:
         browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS, headless=True)
         login = browser.new_page()
         login.goto(base + "/login")
-        login.get_by_label("E-mail").fill(os.environ.get("WARMSTEAD_SHOT_EMAIL", "auditor@demo.invalid"))
-        login.get_by_label("Password").fill(os.environ.get("WARMSTEAD_SHOT_PASSWORD", "warmstead-demo"))
+        login.get_by_label("E-mail").fill(
+            os.environ.get("WARMSTEAD_SHOT_EMAIL", "auditor@demo.invalid")
+        )
+        login.get_by_label("Password").fill(
+            os.environ.get("WARMSTEAD_SHOT_PASSWORD", "warmstead-demo")
+        )
         login.get_by_role("button", name="Sign in").click()
         login.wait_for_url("**/houses**")
         state = login.context.storage_state()

@@ -297,7 +297,9 @@ class IdempotencyKey(Base):
 
     __tablename__ = "idempotency_keys"
     __table_args__ = (
-        UniqueConstraint("organization_id", "user_id", "key", name="uq_idempotency_keys_org_user_key"),
+        UniqueConstraint(
+            "organization_id", "user_id", "key", name="uq_idempotency_keys_org_user_key"
+        ),
     )
 
     id: Mapped[int] = mapped_column(primary_key=True)

@@ -153,12 +153,17 @@ class ClimateIn(Strict):
     @classmethod
     def _degree_days_span(cls, value: float, info: ValidationInfo) -> float:
         return DEGREE_DAYS.check(value, document_units(info))
-    heating_design_temperature: Annotated[float, Field(ge=-80, le=120, allow_inf_nan=False)] | None = Field(
+
+    heating_design_temperature: (
+        Annotated[float, Field(ge=-80, le=120, allow_inf_nan=False)] | None
+    ) = Field(
         default=None,
         description="99 % heating design dry-bulb, °F or °C (e.g. heating_design_temperature of "
         "/calc/degree-days); with it every variant reports design_heat_loss",
     )
-    indoor_design_temperature: Annotated[float, Field(ge=-20, le=120, allow_inf_nan=False)] | None = Field(
+    indoor_design_temperature: (
+        Annotated[float, Field(ge=-20, le=120, allow_inf_nan=False)] | None
+    ) = Field(
         default=None,
         description="indoor design temperature, °F or °C; omitted = 70 °F / 21 °C",
     )
@@ -173,7 +178,9 @@ class ClimateIn(Strict):
         description="ft or m above sea level: the air's heat capacity follows the standard "
         "atmosphere's pressure; omitted = sea level",
     )
-    heating_season_temperature: Annotated[float, Field(ge=-60, le=80, allow_inf_nan=False)] | None = Field(
+    heating_season_temperature: (
+        Annotated[float, Field(ge=-60, le=80, allow_inf_nan=False)] | None
+    ) = Field(
         default=None,
         description="heating season's mean outdoor temperature, °F or °C, for the ducts' "
         "seasonal efficiency; omitted = from temperature_bins or the degree-days",
@@ -366,12 +373,12 @@ class SurfaceIn(Strict):
         default=None, description="the way the surface faces: N, NE, E, SE, S, SW, W or NW"
     )
     azimuth: Annotated[float, Field(ge=0, le=360, allow_inf_nan=False)] | None = Field(
-        default=None, description="the way it faces in degrees from north, clockwise (instead "
-        "of orientation)",
+        default=None,
+        description="the way it faces in degrees from north, clockwise (instead of orientation)",
     )
     tilt: Annotated[float, Field(ge=0, le=90, allow_inf_nan=False)] | None = Field(
-        default=None, description="degrees from horizontal: 90 a wall's window (the default), "
-        "0 a flat skylight",
+        default=None,
+        description="degrees from horizontal: 90 a wall's window (the default), 0 a flat skylight",
     )
 
     @field_validator("shgc")
@@ -500,7 +507,9 @@ class UpgradeIn(Strict):
         assembly_given = [n for n in ("assembly", "r", "u") if getattr(self, n) is not None]
         sealing_given = [n for n in ("cfm50_after", "n50_after") if getattr(self, n) is not None]
         leak_after = [
-            n for n in ("supply_leakage_after", "return_leakage_after") if getattr(self, n) is not None
+            n
+            for n in ("supply_leakage_after", "return_leakage_after")
+            if getattr(self, n) is not None
         ]
         r_after = [n for n in ("supply_r_after", "return_r_after") if getattr(self, n) is not None]
         duct_fields = {"duct_sealing": leak_after, "duct_insulation": r_after}
@@ -510,13 +519,21 @@ class UpgradeIn(Strict):
             wrong = (
                 assembly_given
                 + sealing_given
-                + [n for n in ("surface", "pipe_layers", "ground", "emissivity") if getattr(self, n) is not None]
+                + [
+                    n
+                    for n in ("surface", "pipe_layers", "ground", "emissivity")
+                    if getattr(self, n) is not None
+                ]
                 + [n for kind, names in duct_fields.items() if kind != self.kind for n in names]
             )
             if wrong:
                 raise ValueError(f"an upgrade of kind {self.kind} does not take {', '.join(wrong)}")
             if not duct_fields[self.kind]:
-                after = "supply_leakage_after or return_leakage_after" if self.kind == "duct_sealing" else "supply_r_after or return_r_after"
+                after = (
+                    "supply_leakage_after or return_leakage_after"
+                    if self.kind == "duct_sealing"
+                    else "supply_r_after or return_r_after"
+                )
                 raise ValueError(f"{self.kind.replace('_', ' ')} needs {after}")
             if self.cost.per_length or (self.kind == "duct_sealing" and self.cost.per_area):
                 raise ValueError(
@@ -604,7 +621,7 @@ class OptimizeIn(Strict):
     budget: Annotated[float, Field(ge=0, allow_inf_nan=False)] | None = Field(
         default=None,
         description="most net cost (installed cost − rebates) in the document's currency; "
-        "null = no budget"
+        "null = no budget",
     )
     objective: Literal["npv", "annual_savings", "co2"] = Field(
         default="npv",
@@ -937,7 +954,9 @@ class OptionFigures(HouseFigures):
     id: str
     name: str
     upgrades: list[str]
-    annual_savings: float = Field(description="a year at today's prices (the base date of NIST Handbook 135; later years escalate from it): as-found cost - this house's cost")
+    annual_savings: float = Field(
+        description="a year at today's prices (the base date of NIST Handbook 135; later years escalate from it): as-found cost - this house's cost"
+    )
     installed_cost: float
     rebates: float
     net_cost: float = Field(description="installed cost - rebates")

@@ -85,10 +85,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-from scipy.optimize import Bounds, LinearConstraint, milp
-from scipy.sparse import csr_array, lil_array
+
+if TYPE_CHECKING:  # scipy is imported where a solve needs it: it adds ~50 MB to every worker
+    from scipy.optimize import Bounds, LinearConstraint
 
 from server.physics import energy
 from server.physics import house_model as model
@@ -343,6 +345,9 @@ class _Solver:
     def _rows(
         self, budget: float, held: float | None, scale: float
     ) -> tuple[FloatArray, list[LinearConstraint], FloatArray, Bounds, FloatArray]:
+        from scipy.optimize import Bounds, LinearConstraint
+        from scipy.sparse import csr_array, lil_array
+
         m = self.model
         n, first, extra = self._layout()
         total = n + extra
@@ -420,6 +425,8 @@ class _Solver:
         integrality: FloatArray,
         bounds: Bounds,
     ) -> FloatArray | None:
+        from scipy.optimize import milp
+
         self.solves += 1
         result = milp(
             c,

@@ -200,7 +200,9 @@ def _check_ids(doc: HouseDocument, build: _Build) -> None:
             continue
         if upgrade.kind in ("duct_sealing", "duct_insulation"):
             if doc.heating.ducts is None:
-                build.problem(f"upgrades[{index}]", f"{upgrade.kind} needs the house's heating.ducts")
+                build.problem(
+                    f"upgrades[{index}]", f"{upgrade.kind} needs the house's heating.ducts"
+                )
             continue
         if upgrade.surface not in kinds:
             build.problem(path, f"there is no surface '{upgrade.surface}'")
@@ -397,7 +399,9 @@ def _upgrade(
             ground,
             path,
             upgrade.id,
-            changed=frozenset(upgrade.ground.model_dump(exclude_none=True) if upgrade.ground else ()),
+            changed=frozenset(
+                upgrade.ground.model_dump(exclude_none=True) if upgrade.ground else ()
+            ),
         )
     before = next(s.u_si for s in house.surfaces if s.id == surface.id)
     if u_si >= before * (1 - 1e-12):
@@ -407,7 +411,6 @@ def _upgrade(
     installed = cost.fixed + cost.per_area * surface.area
     shgc = upgrade.shgc if upgrade.kind == "window" else None
     return model.AssemblyUpgrade(upgrade.id, surface.id, u_si, installed, rebate, life, shgc)
-
 
 
 def _ground_u_si(
@@ -467,11 +470,16 @@ def _ground_u_si(
     except InputError as exc:
         inner = f"{path}.ground."
         rest = exc.field[len(inner) :]
-        if changed is not None and exc.field.startswith(inner) and rest.split(".")[0] not in changed:
+        if (
+            changed is not None
+            and exc.field.startswith(inner)
+            and rest.split(".")[0] not in changed
+        ):
             raise InputError(f"{surface_path}.ground.{rest}", exc.message) from None
         raise
     build.warnings.extend(f"{label}: {note}" for note in found.warnings)
     return found.u_si
+
 
 #: Indoor design temperature when the document gives none, by unit system [°C]: 70 °F
 #: (21.11 °C) or 21 °C (the usual winter indoor design condition, common practice).
@@ -500,7 +508,9 @@ def _design(
     if distribution_efficiency != 1.0:
         loss_w /= distribution_efficiency
     capacity = doc.heating.output_capacity
-    ratio = None if capacity is None else capacity_ratio(to_si(capacity, "power", doc.units), loss_w)
+    ratio = (
+        None if capacity is None else capacity_ratio(to_si(capacity, "power", doc.units), loss_w)
+    )
     return from_si(loss_w, "power", doc.units), ratio
 
 
@@ -548,7 +558,9 @@ def _figures(doc: HouseDocument, house: model.House, energy: model.HouseEnergy) 
     ach50 = None if leak is None else air_changes_at_50_pa(leak.flow50_m3_per_s, leak.volume_m3)
     eta_design = systems_svc.design_distribution_efficiency(energy)
     design_loss, ratio = _design(doc, total_ua, eta_design)
-    envelope_design = None if design_loss is None else to_si(design_loss, "power", units) * eta_design
+    envelope_design = (
+        None if design_loss is None else to_si(design_loss, "power", units) * eta_design
+    )
     return {
         "ua": ua(total_ua),
         "ua_envelope": ua(energy.envelope_ua_w_per_k),

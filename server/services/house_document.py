@@ -86,7 +86,11 @@ def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
     except its temperature bins when the climate has none of its own: a heat pump uses them)."""
     out = {k: v for k, v in (stored or {}).items() if k in CLIMATE_KEYS and v is not None}
     weather = (stored or {}).get("weather")
-    if "temperature_bins" not in out and isinstance(weather, dict) and weather.get("temperature_bins"):
+    if (
+        "temperature_bins" not in out
+        and isinstance(weather, dict)
+        and weather.get("temperature_bins")
+    ):
         out["temperature_bins"] = weather["temperature_bins"]
     return out
 
@@ -115,7 +119,9 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
         vent = document.mechanical_ventilation.model_dump(exclude_none=True)
         house.air_leakage = {**(house.air_leakage or {}), "mechanical_ventilation": vent}
     house.economics = document.economics.model_dump(exclude_none=True)
-    house.bills = document.bills.model_dump(mode="json", exclude_none=True) if document.bills else None
+    house.bills = (
+        document.bills.model_dump(mode="json", exclude_none=True) if document.bills else None
+    )
     for i, s in enumerate(document.surfaces):
         if s.kind == "pipe_run":
             session.add(Surface(house=house, position=i, slug=s.id, name=s.name or s.id, kind=s.kind,
@@ -240,9 +246,7 @@ def _export_gains(house: House, body: dict[str, Any]) -> None:
     for key in ("bedrooms", "internal_gains"):
         if gains.get(key) is not None:
             body[key] = gains[key]
-    weather: dict[str, Any] = (
-        stored["weather"] if isinstance(stored.get("weather"), dict) else {}
-    )
+    weather: dict[str, Any] = stored["weather"] if isinstance(stored.get("weather"), dict) else {}
     climate = dict(body["climate"])
     sun = stored.get("solar") or weather.get("solar")
     if sun:

@@ -6,10 +6,12 @@ form or a save that lost a race raises :class:`~server.errors.Conflict` and stor
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from typing import Any
 
 from server.documents.climate import DegreeDaysResult
 from server.models import House
+from server.services.bill_weather import climate_normals
 from server.services.houses import check_version, touch
 
 #: the House columns the settings sections are stored in, by section
@@ -17,6 +19,26 @@ SECTION_COLUMNS = {"climate": "climate", "heating": "heating", "cooling": "cooli
                    "air_leakage": "air_leakage", "economics": "economics"}  # fmt: skip
 #: weather-file warnings kept on the house (the rest only repeat the kind of problem)
 MAX_WARNINGS = 10
+
+
+#: keys a section's form owns although no field of it carries the name (built from others)
+FORM_BUILT_KEYS = {"climate": {"variable_base"}}
+
+
+def keep_unshown(
+    section: str, stored: dict[str, Any] | None, document: dict[str, Any], shown: set[str]
+) -> dict[str, Any]:
+    """``document`` with the stored keys its form does not show kept as they were.
+
+    A section's form edits only some of its document (the House page's climate form has no
+    field for the weather file's table, the gains or the elevation; the heating form none for
+    ducts, a heat pump's ratings or the output capacity of an imported house): saving it must
+    not drop the rest. A key the form shows (``shown``: the top-level keys of its fields) and
+    left empty is cleared, as typed.
+    """
+    owned = shown | FORM_BUILT_KEYS.get(section, set())
+    kept = {k: v for k, v in (stored or {}).items() if k not in owned}
+    return {**kept, **document}
 
 
 def save_house_section(
@@ -37,8 +59,29 @@ def save_house_section(
     touch(house)
 
 
-def climate_from_weather(result: DegreeDaysResult, *, file_name: str) -> dict[str, Any]:
-    """The climate document a weather file's degree-days give (the file's name cut to 200)."""
+#: climate keys a weather file sets; the rest of a stored climate (gains, elevation, a typed
+#: design temperature) is kept when a new file is read
+WEATHER_KEYS = {"hdd", "cdd", "heating_base", "cooling_base", "weather", "variable_base"}
+
+
+def climate_from_weather(
+    result: DegreeDaysResult,
+    *,
+    file_name: str,
+    normal_daily_means_c: Sequence[float] | None = None,
+) -> dict[str, Any]:
+    """The climate document a weather file's degree-days give (the file's name cut to 200).
+
+    With the file's temperature bins (heat pumps by the hour), its sun table (windows' gains)
+    and its 365 normal daily means (the bills' normal year) when the file gives them.
+    """
+    extra: dict[str, Any] = {}
+    if result.temperature_bins:
+        extra["temperature_bins"] = [row.model_dump() for row in result.temperature_bins]
+    if result.solar is not None:
+        extra["solar"] = result.solar.model_dump()
+    if normal_daily_means_c is not None:
+        extra.update(climate_normals(normal_daily_means_c))
     return {
         "hdd": round(result.hdd, 1),
         "cdd": round(result.cdd, 1),
@@ -55,12 +98,18 @@ def climate_from_weather(result: DegreeDaysResult, *, file_name: str) -> dict[st
             "climate_zone_name": result.climate_zone_name,
             "warnings": result.warnings[:MAX_WARNINGS],
             "degree_days_by_base": [row.model_dump() for row in result.degree_days_by_base],
+            **extra,
         },
     }
 
 
 def set_climate_from_weather(
-    *, house: House, result: DegreeDaysResult, file_name: str, expected_version: int | None
+    *,
+    house: House,
+    result: DegreeDaysResult,
+    file_name: str,
+    expected_version: int | None,
+    normal_daily_means_c: Sequence[float] | None = None,
 ) -> None:
     """Replace the house's climate with what the weather file gave (a typed set-point and
     internal gains go with it: the balance point needs the file's table again).
@@ -71,5 +120,9 @@ def set_climate_from_weather(
         The form was loaded from an older version, or another save came first.
     """
     check_version(house, expected_version)
-    house.climate = climate_from_weather(result, file_name=file_name)
+    kept = {k: v for k, v in (house.climate or {}).items() if k not in WEATHER_KEYS}
+    climate = climate_from_weather(
+        result, file_name=file_name, normal_daily_means_c=normal_daily_means_c
+    )
+    house.climate = {**kept, **climate}
     touch(house)

@@ -39,6 +39,7 @@ def rejected_status(errors: dict[str, str], *, conflict_key: str = "form") -> in
     """409 when the form lost to someone else's save (``errors[conflict_key]``), else 422."""
     return 409 if conflict_key in errors else 422
 
+
 PAGE = """{% extends "base.html" %}{% block title %}Not saved{% endblock %}
 {% block content %}<h1>Not saved</h1>
 <p role="alert">{{ message }}</p>{% endblock %}"""

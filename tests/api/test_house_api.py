@@ -37,7 +37,9 @@ ATTIC_R49 = {
         DRYWALL,
     ],
 }
-WALL = {k: v for k, v in copy.deepcopy(API_WALL_IP).items() if k != "units"}  # API.md's example (r_parallel_path 11.85)
+WALL = {
+    k: v for k, v in copy.deepcopy(API_WALL_IP).items() if k != "units"
+}  # API.md's example (r_parallel_path 11.85)
 DOC_IP = {
     "units": "ip",
     "climate": {"hdd": 5400, "cdd": 900, "heating_base": 65, "cooling_base": 65},

@@ -191,7 +191,10 @@ BILLS_IP = {  # ../shared/API.md, POST /api/v1/calc/bills (three months of reads
         {"start": "2025-01-31", "end": "2025-03-02", "use": 120.0, "estimated": True},
         {"start": "2025-03-02", "end": "2025-04-01", "use": 60.0},
     ],
-    "daily_temperatures": {"start": "2025-01-01", "values": [30.0] * 30 + [38.0] * 30 + [50.0] * 30},
+    "daily_temperatures": {
+        "start": "2025-01-01",
+        "values": [30.0] * 30 + [38.0] * 30 + [50.0] * 30,
+    },
     "normal_temperatures": {"values": [50.0] * 365},
     "efficiency": 0.8,
 }

@@ -14,9 +14,21 @@ from server.config import ROOT
 from server.db import make_engine
 from tests.conftest import _pg_reachable, drop_pg_schema, pg_schema_url, reset_pg_schema
 
-TABLES = {"organizations", "materials", "houses", "surfaces", "upgrades", "packages", "users",
-          "login_attempts", "share_links", "price_book_items", "code_targets", "revoked_sessions",
-          "idempotency_keys"}
+TABLES = {
+    "organizations",
+    "materials",
+    "houses",
+    "surfaces",
+    "upgrades",
+    "packages",
+    "users",
+    "login_attempts",
+    "share_links",
+    "price_book_items",
+    "code_targets",
+    "revoked_sessions",
+    "idempotency_keys",
+}
 
 
 def _config(url: str) -> Config:

@@ -41,4 +41,6 @@ def test_contrast_formula_against_published_extremes() -> None:
     ],
 )  # fmt: skip
 def test_text_pairs_meet_4_5_to_1(fg: str, bg: str) -> None:
-    assert contrast(VARS[fg], VARS[bg]) >= 4.5, f"{fg} on {bg}: {contrast(VARS[fg], VARS[bg]):.2f}:1"
+    assert contrast(VARS[fg], VARS[bg]) >= 4.5, (
+        f"{fg} on {bg}: {contrast(VARS[fg], VARS[bg]):.2f}:1"
+    )

@@ -108,14 +108,18 @@ def test_code_target_beside_surfaces_once_zone_known(client: TestClient) -> None
     surface = client.post(f"{house}/surfaces", data={"typical": "attic-2x6-16-empty", "area": "500"},
                           follow_redirects=False).headers["location"]  # fmt: skip
     assert "✗ below" not in client.get(house).text  # no zone yet: no verdict
-    r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "5a"}, headers=HX)
+    r = client.post(
+        f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "5a"}, headers=HX
+    )
     assert "Climate saved." in r.text
     page = client.get(house).text
     # Empty attic → U 0.44 against the zone 5 ceiling maximum U-0.024 (IECC 2021
     # R402.1.2, from memory — server/data/code_targets.csv): below target
     assert "✗ below" in page and "verify with your locally adopted code" in page
     assert "Below the code target" in client.get(surface).text
-    r = client.post(f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "9Z"}, headers=HX)
+    r = client.post(
+        f"{house}/settings/climate", data={"hdd": "6000", "climate_zone": "9Z"}, headers=HX
+    )
     assert "write the zone like 5 or 5A" in r.text and 'value="9Z"' in r.text
 
 
@@ -132,3 +136,68 @@ def test_a_weather_file_longer_than_a_year_is_refused_on_the_house_page(
         data={"version": _version(client, house)},
     )
     assert r.status_code == 422 and "more than 8,848 lines" in r.text
+
+
+def _stored(app, house_url: str):  # type: ignore[no-untyped-def]
+    from server.models import House
+
+    with app.state.session_factory() as s:
+        house = s.get(House, int(house_url.rsplit("/", 1)[1]))
+        assert house is not None
+        return dict(house.heating or {}), dict(house.climate or {})
+
+
+def _put(app, house_url: str, **columns) -> None:  # type: ignore[no-untyped-def]
+    from server.models import House
+
+    with app.state.session_factory() as s:
+        house = s.get(House, int(house_url.rsplit("/", 1)[1]))
+        for name, value in columns.items():
+            setattr(house, name, value)
+        s.commit()
+
+
+def test_a_section_form_keeps_what_it_does_not_show(app, client: TestClient) -> None:  # type: ignore[no-untyped-def]
+    # An imported house carries ducts, a heat pump's ratings, an output capacity and gains that
+    # the House page's forms have no field for: saving the form must not drop them, while a
+    # field the form shows and the auditor empties is cleared.
+    house = _house(client)
+    ducts = {"supply_location": "outdoors", "supply_leakage": 0.1}
+    _put(app, house,
+         heating={"fuel": "natural_gas", "efficiency": 0.8, "price": 1.2, "output_capacity": 80000,
+                  "ducts": ducts},
+         climate={"hdd": 5000, "gains": {"floor_area": 1800, "bedrooms": 3}, "elevation": 1500})  # fmt: skip
+    r = client.post(f"{house}/settings/heating",
+                    data={"fuel": "propane", "efficiency": "0.9", "price": "2.5",
+                          "version": _version(client, house)}, headers=HX)  # fmt: skip
+    assert "Heating system saved." in r.text
+    heating, _ = _stored(app, house)
+    assert heating["fuel"] == "propane" and heating["efficiency"] == 0.9
+    assert heating["ducts"] == ducts and heating["output_capacity"] == 80000
+    r = client.post(f"{house}/settings/climate",
+                    data={"hdd": "5200", "version": _version(client, house)}, headers=HX)  # fmt: skip
+    assert "Climate saved." in r.text
+    _, climate = _stored(app, house)
+    assert climate["hdd"] == 5200 and climate["elevation"] == 1500
+    assert climate["gains"] == {"floor_area": 1800, "bedrooms": 3}
+    assert "cdd" not in climate or climate["cdd"] in (0, 0.0)  # shown and left empty: cleared
+
+
+def test_a_weather_file_keeps_its_bins_sun_and_normal_year_and_the_gains(  # type: ignore[no-untyped-def]
+    app, client: TestClient
+) -> None:
+    # pvlib's bundled Greensboro TMY3 (hourly, with irradiance): the heat pump's temperature
+    # bins, the windows' sun table and the bills' 365-day normal year are stored with the
+    # climate; the typed gains of the house stay.
+    house = _house(client)
+    _put(app, house, climate={"hdd": 5000, "gains": {"floor_area": 1800, "bedrooms": 3}})
+    r = client.post(f"{house}/weather", data={"version": _version(client, house)},
+                    files={"file": ("greensboro.csv", TMY3.read_bytes())}, headers=HX)  # fmt: skip
+    assert r.status_code == 200, r.text
+    _, climate = _stored(app, house)
+    weather = climate["weather"]
+    assert climate["gains"] == {"floor_area": 1800, "bedrooms": 3}
+    # every hour of the year is in one bin
+    assert sum(row["hours"] for row in weather["temperature_bins"]) == 8760
+    assert weather["solar"] and len(weather["normal_daily_means_c"]) == 365
+    assert climate["hdd"] != 5000

@@ -51,5 +51,7 @@ def save_code_target(request: Request, session: SessionDep, org: OrgDep, data: P
             return RedirectResponse("/code-targets#t-" + f"{zone}-{kind}", status_code=303)
         except InputError as exc:
             errors[exc.field] = exc.message
-    context = code_targets_context(session=session, organization_id=org.id, form=data, errors=errors)
+    context = code_targets_context(
+        session=session, organization_id=org.id, form=data, errors=errors
+    )
     return render(request, "pages/code_targets.html", context, status_code=422)

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import re
-from typing import Any
+from typing import Any, BinaryIO
 
 from fastapi import APIRouter, Request, UploadFile
 from fastapi.responses import RedirectResponse, Response
@@ -12,8 +12,13 @@ from sqlalchemy.orm import Session
 from server.errors import InputError
 from server.models import House, Organization
 from server.services import houses as svc
+from server.services.bill_weather import normal_daily_means
 from server.services.climate import compute_degree_days
-from server.services.house_sections import save_house_section, set_climate_from_weather
+from server.services.house_sections import (
+    keep_unshown,
+    save_house_section,
+    set_climate_from_weather,
+)
 from server.services.number_text import NumberTextError, read_decimal
 from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep
@@ -67,8 +72,9 @@ def save_section(
     if doc is not None and section == "climate":
         doc, errors = _with_balance_point(house, doc, data, errors)
     if doc is not None:
+        shown = {f.key.split(".")[0] for f in SECTIONS[section][2]}
+        doc = keep_unshown(section, stored, doc, shown)  # what the form does not show stays
         if section == "climate":
-            doc = {**doc, **({"weather": stored["weather"]} if stored.get("weather") else {})}
             if zone:
                 doc["climate_zone"] = zone
         try:  # written now: Conflict for a stale form or when another save came first
@@ -79,7 +85,9 @@ def save_section(
     if doc is None:
         ctx = settings_context(house=house, section=section, typed=data, errors=errors,
                                message="Not saved: check the marked fields.")  # fmt: skip
-        return _respond(request, session, org, house, ctx, 409 if "form" in errors and version_ok else 422)
+        return _respond(
+            request, session, org, house, ctx, 409 if "form" in errors and version_ok else 422
+        )
     ctx = settings_context(house=house, section=section, message=f"{SECTIONS[section][0]} saved.")
     return _respond(request, session, org, house, ctx, 200)
 
@@ -131,6 +139,7 @@ def upload_weather(
         result = compute_degree_days(  # read line by line from the spooled file, bounded
             file.file, units=house.units, heating_base=None, cooling_base=None
         )
+        normals = _normal_year(file.file, default_unit="F" if house.units == "ip" else "C")
     except InputError as exc:
         ctx = settings_context(house=house, section="climate", errors={"file": exc.message},
                                message="The weather file was not used.")  # fmt: skip
@@ -140,7 +149,7 @@ def upload_weather(
         return _respond(request, session, org, house, ctx, 409)
     try:  # written now: Conflict when another save of the house came first
         set_climate_from_weather(house=house, result=result, file_name=file.filename or "",
-                                 expected_version=version)  # fmt: skip
+                                 expected_version=version, normal_daily_means_c=normals)  # fmt: skip
     except svc.Conflict:
         ctx = settings_context(house=house, section="climate", errors={"form": WEATHER_STALE})
         return _respond(request, session, org, house, ctx, 409)
@@ -148,3 +157,13 @@ def upload_weather(
     ctx = settings_context(house=house, section="climate", message=f"Climate read from {name}: "
                            f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
     return _respond(request, session, org, house, ctx, 200)
+
+
+def _normal_year(data: BinaryIO, *, default_unit: str) -> tuple[float, ...] | None:
+    """The file's 365 normal daily means [°C] for the bills' normal year, or None when the file
+    does not give every calendar day (the degree-days are still used)."""
+    data.seek(0)
+    try:
+        return normal_daily_means(data, default_unit=default_unit)
+    except InputError:
+        return None

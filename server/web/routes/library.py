@@ -17,7 +17,9 @@ router = APIRouter()
 
 @router.get("/library", name="library")
 def library_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
-    return render(request, "pages/library.html", library_context(session=session, organization_id=org.id))
+    return render(
+        request, "pages/library.html", library_context(session=session, organization_id=org.id)
+    )
 
 
 @router.post("/library")

@@ -87,7 +87,9 @@ def insulate_pipe(
     )
     errors: dict[str, str] = {}
     thickness = parse_length_field(data.get("thickness", ""), house.units, "thickness", errors)
-    conductivity = parse_float(data.get("conductivity", ""), "conductivity", errors, units=house.units)
+    conductivity = parse_float(
+        data.get("conductivity", ""), "conductivity", errors, units=house.units
+    )
     if not errors:
 
         def work() -> str:

@@ -36,7 +36,9 @@ def surface_page(
 ):  # type: ignore[no-untyped-def]
     house, surface = _load(session, org, house_id, surface_id)
     if surface.kind == "pipe_run":
-        return render(request, "pages/pipe_run.html", pipe_run_context(house=house, surface=surface))
+        return render(
+            request, "pages/pipe_run.html", pipe_run_context(house=house, surface=surface)
+        )
     catalog = catalog_for(session=session, organization_id=org.id)
     form = form_from_document(surface.assembly, house.units)
     result = saved_result(house=house, surface=surface, catalog=catalog)
@@ -95,7 +97,9 @@ def update_surface(
         except svc.Conflict:
             errors["form"] = stale_form("nothing was deleted")
     deleting = data.get("action") == "delete"
-    area = None if deleting else parse_float(data.get("area", ""), "area", errors, units=house.units)
+    area = (
+        None if deleting else parse_float(data.get("area", ""), "area", errors, units=house.units)
+    )
     if not errors:
         try:
             svc.update_surface(

@@ -72,7 +72,9 @@ def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-d
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
     result = compute_pipe(req) if req else None
-    return render(request, "pages/pipe.html", pipe_tool_context(form=form, errors=errors, result=result))
+    return render(
+        request, "pages/pipe.html", pipe_tool_context(form=form, errors=errors, result=result)
+    )
 
 
 @router.post("/tools/pipe")

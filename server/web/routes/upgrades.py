@@ -73,7 +73,8 @@ def add_upgrade(
                 surface_id = read_integer(typed or "0", low=0)
             except NumberTextError:
                 raise InputError(
-                    "surface_id", f"'{typed}' is not a surface of this house: choose one from the list"
+                    "surface_id",
+                    f"'{typed}' is not a surface of this house: choose one from the list",
                 ) from None
             surface = svc.get_surface(
                 session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
