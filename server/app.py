@@ -208,7 +208,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     app.include_router(web_router)
 
     @app.exception_handler(NotFound)
-    async def _not_found(request: Request, _exc: NotFound):  # type: ignore[no-untyped-def]
+    async def _not_found(request: Request, _exc: NotFound) -> Response:
         if request.url.path.startswith("/api/"):
             return JSONResponse({"detail": "not found", "errors": []}, status_code=404)
         html = app.state.templates.get_template("pages/not_found.html").render(request=request)
@@ -217,11 +217,11 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     # An id beyond the database's integer range cannot name a row: answer 404, never 500
     # (SQLite raises OverflowError binding it, PostgreSQL a DataError "integer out of range").
     @app.exception_handler(OverflowError)
-    async def _overflow(request: Request, exc: OverflowError):  # type: ignore[no-untyped-def]
+    async def _overflow(request: Request, exc: OverflowError) -> Response:
         return await _not_found(request, NotFound())
 
     @app.exception_handler(DataError)
-    async def _data_error(request: Request, exc: DataError):  # type: ignore[no-untyped-def]
+    async def _data_error(request: Request, exc: DataError) -> Response:
         return await _not_found(request, NotFound())
 
     @app.get("/healthz", include_in_schema=False)

@@ -7,10 +7,11 @@ from contextlib import contextmanager
 
 from sqlalchemy import Engine, create_engine, event
 from sqlalchemy.engine import make_url
+from sqlalchemy.engine.interfaces import DBAPIConnection
 from sqlalchemy.exc import DBAPIError
 from sqlalchemy.orm import Session, sessionmaker
 from sqlalchemy.orm.exc import StaleDataError
-from sqlalchemy.pool import StaticPool
+from sqlalchemy.pool import ConnectionPoolEntry, StaticPool
 
 
 def normalise_url(url: str) -> str:
@@ -50,7 +51,7 @@ def make_engine(url: str, *, echo: bool = False, pool_size: int = 10) -> Engine:
     return create_engine(url, echo=echo, pool_pre_ping=True, pool_size=pool_size, max_overflow=10)
 
 
-def _sqlite_pragmas(dbapi_connection, _record) -> None:  # type: ignore[no-untyped-def]
+def _sqlite_pragmas(dbapi_connection: DBAPIConnection, _record: ConnectionPoolEntry) -> None:
     cursor = dbapi_connection.cursor()
     cursor.execute("PRAGMA journal_mode=WAL")
     cursor.execute("PRAGMA foreign_keys=ON")

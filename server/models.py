@@ -14,6 +14,7 @@ from typing import Any
 from sqlalchemy import (
     JSON,
     Boolean,
+    CheckConstraint,
     DateTime,
     Float,
     ForeignKey,
@@ -113,10 +114,19 @@ class House(Base):
     )
 
 
+#: the CHECK on ``surfaces`` (also written by migration 0008)
+SURFACE_MEASURE_CHECK = (
+    "(kind = 'pipe_run' AND length IS NOT NULL AND area IS NULL)"
+    " OR (kind <> 'pipe_run' AND area IS NOT NULL AND length IS NULL)"
+)
+
+
 class Surface(Base):
     """One piece of the envelope and its as-found assembly (an AssemblyInput document)."""
 
     __tablename__ = "surfaces"
+    #: a pipe run has a length and no area; every other surface an area and no length
+    __table_args__ = (CheckConstraint(SURFACE_MEASURE_CHECK, name="ck_surfaces_area_or_length"),)
 
     id: Mapped[int] = mapped_column(primary_key=True)
     house_id: Mapped[int] = mapped_column(ForeignKey("houses.id", ondelete="CASCADE"), index=True)
@@ -124,9 +134,8 @@ class Surface(Base):
     slug: Mapped[str] = mapped_column(String(80))
     name: Mapped[str] = mapped_column(String(200))
     kind: Mapped[str] = mapped_column(String(40))
-    area: Mapped[float] = mapped_column(
-        Float
-    )  # in the house's units (ft² or m²; ft or m for pipe runs)
+    area: Mapped[float | None] = mapped_column(Float)  # ft² or m²; NULL for a pipe run
+    length: Mapped[float | None] = mapped_column(Float)  # a pipe run's (ft or m); NULL otherwise
     orientation: Mapped[str] = mapped_column(String(20), default="")
     assembly: Mapped[dict[str, Any]] = mapped_column(JSON, default=dict)
     details: Mapped[dict[str, Any]] = mapped_column(JSON, default=dict)  # e.g. a pipe run's pipe

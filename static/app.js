@@ -33,6 +33,9 @@
 // back old values under the user's fingers, so only the house version it stored is taken
 // (the follow-up must not be refused as someone else's edit). "Saved." is thus never shown
 // for values other than those on the screen.
+// The editor swaps with "settle:0ms" (layer_editor.html): htmx binds a swapped-in form's own
+// change/submit triggers only when it settles (20 ms later by default), so a value typed and
+// left in that window fired a change nobody heard: never sent, while "Saved." still showed.
 (function () {
   "use strict";
   var states = {};

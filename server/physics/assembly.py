@@ -149,7 +149,7 @@ def assembly_resistance(
             results.append(LayerResult(layer.name, layer.r_si, None, None))
     if len(framed) > MAX_FRAMED_LAYERS:
         raise ValueError(f"at most {MAX_FRAMED_LAYERS} framed layers are supported")
-    base = homogeneous + films.total_r_si
+    base = homogeneous + films.total_r_m2k_w
 
     # Upper bound / parallel path: every combination of cavity (0) or framing (1) per layer.
     conductance = 0.0

@@ -28,7 +28,10 @@ References
 [2] ASHRAE Handbook—Fundamentals (2017), ch. 1 "Psychrometrics", eq. 5 and 6.
 [3] ASHRAE Handbook—Fundamentals (2017), ch. 26 "Heat, Air, and Moisture Control in Building
     Assemblies—Material Properties" (permeance units: 1 perm = 57.2 ng/(s·m²·Pa)).
-[4] NIST Special Publication 811 (2008), appendix B (grain, conventional inch of mercury).
+[4] NIST Special Publication 811 (2008), appendix B (grain, conventional inch of mercury; the
+    perm factor is :data:`server.physics.units.US_PERM_NG_PER_PA_S_M2`).
+
+The words said about a result are built in :mod:`server.services.condensation_words`.
 """
 
 from __future__ import annotations
@@ -42,44 +45,28 @@ from server.physics.psychrometrics import (
     saturation_vapour_pressure_pa,
     vapour_pressure_pa,
 )
-from server.physics.units import HOUR_S, SQFT_M2, UnitSystem, delta_k_to_f, temp_from_c
+from server.physics.units import us_perms_to_permeance
 
 __all__ = [
     "DELTA_0_KG_M_S_PA",
-    "SCREENING_NOTE",
-    "US_PERM_NG_PER_PA_S_M2",
     "CondensationPlane",
     "CondensationResult",
     "Plane",
     "VapourLayer",
     "glaser_check",
+    "permeance_from_sd",
     "sd_from_mu",
     "sd_from_permeance",
     "sd_from_us_perms",
-    "summary_words",
-    "us_perms_to_permeance",
 ]
 
 #: Water-vapour permeability of still air, ISO 13788:2012 [1] [kg/(m·s·Pa)].
 DELTA_0_KG_M_S_PA = 2.0e-10
-#: 1 grain = 64.79891 mg exactly, NIST SP 811 [4] [kg].
-GRAIN_KG = 64.79891e-6
-#: Conventional inch of mercury (0 °C) = 3386.389 Pa, NIST SP 811 [4] [Pa].
-INCH_HG_PA = 3386.389
-#: 1 US perm = 1 grain/(h·ft²·inHg) = 57.2135 ng/(Pa·s·m²) ([3], [4]).
-US_PERM_NG_PER_PA_S_M2 = GRAIN_KG * 1e12 / (HOUR_S * SQFT_M2 * INCH_HG_PA)
 #: Largest sub-layer thermal resistance, ISO 13788 [1] (from memory) [m²·K/W].
 MAX_SUBLAYER_R_M2K_W = 0.25
 #: Default surface resistances, ISO 6946 (horizontal heat flow) [m²·K/W].
 DEFAULT_INSIDE_SURFACE_R = 0.13
 DEFAULT_OUTSIDE_SURFACE_R = 0.04
-#: Always shown with the result.
-SCREENING_NOTE = (
-    "This is a screening check (ISO 13788 Glaser method): one steady condition, water vapour "
-    "moving by diffusion only; it ignores liquid water moving through materials, air leaking "
-    "through the assembly, rain, sun and moisture stored in the materials. A flag means look "
-    "closer, not a verdict."
-)
 
 
 def sd_from_mu(mu: float, thickness_m: float) -> float:
@@ -109,9 +96,14 @@ def sd_from_permeance(permeance_ng_per_pa_s_m2: float) -> float:
     return DELTA_0_KG_M_S_PA * 1e12 / permeance_ng_per_pa_s_m2
 
 
-def us_perms_to_permeance(perms: float) -> float:
-    """Vapour permeance: US perms [grain/(h·ft²·inHg)] -> [ng/(Pa·s·m²)] ([3], [4])."""
-    return perms * US_PERM_NG_PER_PA_S_M2
+def permeance_from_sd(sd_m: float) -> float:
+    """Vapour permeance W [ng/(Pa·s·m²)] of a layer from its sd [m]: W = delta_0 / sd ([1]).
+
+    The inverse of :func:`sd_from_permeance`: W = 200 / sd.
+    """
+    if not math.isfinite(sd_m) or sd_m <= 0.0:
+        raise ValueError("an sd must be greater than zero")
+    return DELTA_0_KG_M_S_PA * 1e12 / sd_m
 
 
 def sd_from_us_perms(perms: float) -> float:
@@ -187,7 +179,13 @@ class CondensationResult:
     condensation_planes: tuple[CondensationPlane, ...]
     inside_surface_condensation: bool
     outside_surface_condensation: bool
-    notes: tuple[str, ...]
+
+    @property
+    def still_air_floored_layers(self) -> tuple[int, ...]:
+        """Indices of the layers whose sd was raised to their thickness (mu >= 1 floor)."""
+        return tuple(
+            k for k, layer in enumerate(self.layers) if self.effective_sd_m[k] > layer.sd_m
+        )
 
     @property
     def flagged(self) -> tuple[Plane, ...]:
@@ -376,23 +374,6 @@ def glaser_check(
         flagged = lines[n] > psats[n]
         planes.append(Plane(n, *row, temps[n], psats[n], lines[n], vapour, dew, margin, flagged))
 
-    notes = [SCREENING_NOTE]
-    floored = [
-        f"the {layer.name.strip() or f'layer {k + 1}'}"
-        for k, layer in enumerate(layers)
-        if sds[k] > layer.sd_m
-    ]
-    if floored:
-        notes.append(
-            "Taken as resisting vapour like still air of the same thickness (sd = thickness): "
-            + ", ".join(floored)
-            + "."
-        )
-    if len(condensing) > 1:
-        notes.append(
-            f"Water would collect at {len(condensing)} planes at once, not one; each plane's "
-            "rate comes from the same Glaser construction."
-        )
     return CondensationResult(
         layers=tuple(layers),
         effective_sd_m=tuple(sds),
@@ -410,117 +391,4 @@ def glaser_check(
         condensation_planes=tuple(condensing),
         inside_surface_condensation=planes[-1].flagged,
         outside_surface_condensation=planes[0].flagged,
-        notes=tuple(notes),
     )
-
-
-# --- plain words -----------------------------------------------------------------------------
-def _temp(value_c: float, units: UnitSystem) -> str:
-    return f"{temp_from_c(value_c, units):.1f} °{'C' if units == 'si' else 'F'}"
-
-
-def _difference(value_k: float, units: UnitSystem) -> str:
-    return f"{value_k:.1f} K" if units == "si" else f"{delta_k_to_f(value_k):.1f} °F"
-
-
-def _sd(value_m: float, units: UnitSystem) -> str:
-    if units == "si" or value_m <= 0.0:
-        return f"sd {value_m:.3g} m"
-    perms = DELTA_0_KG_M_S_PA * 1e12 / value_m / US_PERM_NG_PER_PA_S_M2
-    return f"sd {value_m:.3g} m, about {perms:.3g} perms"
-
-
-def _rate(rate_kg_m2_s: float, units: UnitSystem) -> str:
-    grams_m2_day = rate_kg_m2_s * 1000.0 * 24.0 * HOUR_S
-    if units == "si":
-        return f"about {grams_m2_day:.3g} g of water per square metre per day"
-    return f"about {grams_m2_day * SQFT_M2:.3g} g of water per square foot per day"
-
-
-def summary_words(result: CondensationResult, *, units: UnitSystem = "si") -> list[str]:
-    """Sentences an auditor can repeat about a :class:`CondensationResult`.
-
-    Parameters
-    ----------
-    result : CondensationResult
-        The output of :func:`glaser_check`.
-    units : {"si", "ip"}
-        Temperatures in °C or °F; "ip" also gives sd as US perms.
-
-    Returns
-    -------
-    list of str
-        The condition, each finding, then the notes (the screening note last).
-    """
-    words: list[str] = []
-    indoor_dew = dew_point_from_vapour_pressure_c(result.indoor_vapour_pressure_pa)
-    dew_text = "perfectly dry" if indoor_dew is None else f"dew point {_temp(indoor_dew, units)}"
-    words.append(
-        f"Condition checked: indoors {_temp(result.indoor_temp_c, units)} at "
-        f"{result.indoor_rh:.0%} relative humidity ({dew_text}), outdoors "
-        f"{_temp(result.outdoor_temp_c, units)} at {result.outdoor_rh:.0%}."
-    )
-    from_room = result.indoor_vapour_pressure_pa >= result.outdoor_vapour_pressure_pa
-    for found in result.condensation_planes:
-        plane = result.planes[found.plane_index]
-        toward_room = result.total_sd_m - plane.cumulative_sd_m
-        near, far = (
-            (toward_room, plane.cumulative_sd_m)
-            if from_room
-            else (plane.cumulative_sd_m, toward_room)
-        )
-        source, side = ("the room", "room") if from_room else ("outdoors", "outdoor")
-        dew = "" if plane.dew_point_c is None else f" (dew point {_temp(plane.dew_point_c, units)})"
-        words.append(
-            f"At the {plane.label} the temperature is {_temp(plane.temperature_c, units)}; "
-            f"water vapour from {source} would condense there{dew} because nothing on the "
-            f"{side} side of it slows vapour down enough ({_sd(near, units)} on that side, "
-            f"against {_sd(far, units)} beyond it). It would collect "
-            f"{_rate(found.rate_kg_m2_s, units)} while this condition lasts."
-        )
-    rated = {found.plane_index for found in result.condensation_planes}
-    surfaces = {0, len(result.planes) - 1}
-    others = [p for p in result.flagged if p.index not in rated and p.index not in surfaces]
-    if others and rated:
-        span = (
-            others[0].label if len(others) == 1 else f"{others[0].label} to the {others[-1].label}"
-        )
-        words.append(
-            f"Without condensation the vapour pressure would also be above saturation at "
-            f"{len(others)} more plane(s) (the {span}); that shows how far the wet zone reaches."
-        )
-    elif others:
-        words.append(
-            f"The vapour pressure is at or just above saturation at {len(others)} plane(s) "
-            f"(the {others[0].label}) with no condensation rate worth stating: the plane meets "
-            "the air with no vapour resistance between, or the excess is negligible."
-        )
-    for plane, face, where in (
-        (result.planes[-1], result.inside_surface_condensation, "room"),
-        (result.planes[0], result.outside_surface_condensation, "outdoor air"),
-    ):
-        if face and plane.dew_point_c is not None:
-            words.append(
-                f"The {plane.label} is at {_temp(plane.temperature_c, units)}, at or below the "
-                f"{where}'s dew point of {_temp(plane.dew_point_c, units)}: water would form on "
-                "that surface itself (surface condensation)."
-            )
-    if not result.flagged:
-        margins = [
-            (p.margin_k, p.index, p.dew_point_c)
-            for p in result.planes
-            if p.margin_k is not None and p.dew_point_c is not None
-        ]
-        if not margins:
-            words.append("The air is perfectly dry on both sides, so nothing can condense.")
-        else:
-            margin, index, dew_point = min(margins)
-            low = result.planes[index]
-            words.append(
-                f"No plane reaches the dew point at this condition; the closest is the "
-                f"{low.label} at {_temp(low.temperature_c, units)}, with a dew point of "
-                f"{_temp(dew_point, units)} there ({_difference(margin, units)} to spare)."
-            )
-    words.extend(result.notes[1:])
-    words.append(result.notes[0])
-    return words

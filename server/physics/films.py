@@ -33,12 +33,12 @@ OutsideFilm = Literal["wind", "still_air"]
 class Films:
     """Inside and outside film resistances [m²·K/W]."""
 
-    inside_r_si: float
-    outside_r_si: float
+    inside_r_m2k_w: float
+    outside_r_m2k_w: float
 
     @property
-    def total_r_si(self) -> float:
-        return self.inside_r_si + self.outside_r_si
+    def total_r_m2k_w(self) -> float:
+        return self.inside_r_m2k_w + self.outside_r_m2k_w
 
 
 # ASHRAE [1], IP values: inside still air by direction; outside 15 mph wind (any direction).
@@ -70,7 +70,7 @@ def surface_films(film_set: FilmSet, heat_flow: HeatFlow, outside: OutsideFilm =
     Returns
     -------
     Films
-        ``inside_r_si`` and ``outside_r_si`` [m²·K/W].
+        ``inside_r_m2k_w`` and ``outside_r_m2k_w`` [m²·K/W].
     """
     if heat_flow not in _ISO_INSIDE_SI:
         raise ValueError("heat flow must be horizontal, up or down")

@@ -2,7 +2,8 @@
 
 The pipe wall and the inner film are neglected (the insulation's inner face is at the fluid
 temperature), as is usual for insulated building-services pipes ([2], method style of [3]).
-Layers are listed inside to outside.
+Layers are listed inside to outside. Results and input errors carry figures and kinds, not
+words: :mod:`server.services.pipe_words` says them in both unit systems.
 
 References
 ----------
@@ -20,8 +21,8 @@ References
 
 from __future__ import annotations
 
+import enum
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, replace
 
 from server.physics.convection import (
@@ -31,15 +32,7 @@ from server.physics.convection import (
     KELVIN_OFFSET,
     cylinder_surface_coefficient,
 )
-from server.physics.units import (
-    FOOT_M,
-    HOUR_S,
-    INCH_M,
-    Q_LENGTH_IP_IN_SI,
-    c_to_f,
-    k_si_to_ip,
-    u_si_to_ip,
-)
+from server.physics.units import HOUR_S
 
 # Accepted ranges (SI). They keep every result finite; none binds a real building pipe.
 DIAMETER_RANGE_M = (1e-4, 5.0)  # 0.1 mm .. 5 m: larger is a vessel or duct (common practice)
@@ -59,12 +52,52 @@ THIN_LAYER_M = 0.006  # 1/4 in: thinner wraps are rarely practical (common pract
 PLAUSIBLE_H_W_M2K = (2.0, 100.0)  # still air to strong wind, pipes in air (common practice)
 
 
-class PipeInputError(ValueError):
-    """A value the pipe calculation cannot use; ``parameter`` names the input at fault."""
+class Problem(enum.Enum):
+    """What is wrong with an input; :class:`PipeInputError` ``figures`` carry its numbers (SI)."""
 
-    def __init__(self, parameter: str, message: str) -> None:
-        super().__init__(message)
+    NOT_FINITE = "not a finite number"
+    NOT_POSITIVE = "not greater than zero"
+    BELOW_MINIMUM = "below the minimum"  # figures: (minimum,)
+    ABOVE_MAXIMUM = "above the maximum"  # figures: (maximum,)
+    TEMPERATURE_RANGE = "not above absolute zero and at most the maximum"  # (maximum [°C],)
+    EMISSIVITY_RANGE = "not in (0, 1]"
+    OUTSIDE_AIR_TABLE = "outside the computed coefficient's range"  # (low [°C], high [°C])
+    TARGET_UNREACHABLE = "target cannot be met"  # (thickness tried [m], its |q'| [W/m])
+    RESULT_NOT_FINITE = "the heat loss is not a finite number"
+
+
+class PipeInputError(ValueError):
+    """A value the pipe calculation cannot use.
+
+    ``parameter`` names the input at fault, ``problem`` says what is wrong and ``figures``
+    holds the SI numbers a message needs (see :class:`Problem`).
+    """
+
+    def __init__(self, parameter: str, problem: Problem, *figures: float) -> None:
+        super().__init__(f"{parameter}: {problem.value}")
         self.parameter = parameter
+        self.problem = problem
+        self.figures = figures
+
+
+class CautionKind(enum.Enum):
+    """A caution about a computed run; :class:`PipeCaution` ``value`` is its figure (SI)."""
+
+    HOT_SURFACE = "outer surface above the touch limit"  # value: surface temperature [°C]
+    COLD_PIPE = "pipe colder than the air"  # value: surface temperature [°C]
+    THIN_LAYER = "layer thinner than practical"  # value: thickness [m]; layer_index
+    UNUSUAL_COEFFICIENT = "given coefficient outside the usual range"  # value: h [W/(m²·K)]
+    HIGH_RAYLEIGH = "Rayleigh number above the correlation's range"  # value: Ra [-]
+    RAISES_HEAT_FLOW = "insulation below the critical radius"  # value: r_cr = k/h [m]
+
+
+@dataclass(frozen=True, slots=True)
+class PipeCaution:
+    """One caution: its kind, its figure (SI, see :class:`CautionKind`), the layer (0-based)."""
+
+    kind: CautionKind
+    value: float
+    layer_index: int | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -75,8 +108,8 @@ class PipeLayer:
     conductivity_w_mk: float
 
     def __post_init__(self) -> None:
-        _check("thickness_m", self.thickness_m, THICKNESS_RANGE_M, text_mm)
-        _check("conductivity_w_mk", self.conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK, _text_k)
+        _check("thickness_m", self.thickness_m, THICKNESS_RANGE_M)
+        _check("conductivity_w_mk", self.conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK)
 
 
 @dataclass(frozen=True, slots=True)
@@ -92,21 +125,17 @@ class PipeRun:
     length_m: float = 1.0
 
     def __post_init__(self) -> None:
-        _check("pipe_outer_diameter_m", self.pipe_outer_diameter_m, DIAMETER_RANGE_M, text_mm)
+        _check("pipe_outer_diameter_m", self.pipe_outer_diameter_m, DIAMETER_RANGE_M)
         for name in ("fluid_temperature_c", "ambient_temperature_c"):
             value = getattr(self, name)
             if not (math.isfinite(value) and -KELVIN_OFFSET < value <= MAX_TEMPERATURE_C):
-                raise PipeInputError(
-                    name,
-                    "must be above absolute zero (-273.15 °C, -459.67 °F) and at most "
-                    f"{_text_c(MAX_TEMPERATURE_C)}",
-                )
+                raise PipeInputError(name, Problem.TEMPERATURE_RANGE, MAX_TEMPERATURE_C)
         if self.surface_coefficient_w_m2k is not None:
             coefficient = self.surface_coefficient_w_m2k
-            _check("surface_coefficient_w_m2k", coefficient, COEFFICIENT_RANGE_W_M2K, _text_h)
+            _check("surface_coefficient_w_m2k", coefficient, COEFFICIENT_RANGE_W_M2K)
         if not (math.isfinite(self.emissivity) and 0 < self.emissivity <= 1):
-            raise PipeInputError("emissivity", "must be greater than 0 and at most 1")
-        _check("length_m", self.length_m, LENGTH_RANGE_M, _text_length)
+            raise PipeInputError("emissivity", Problem.EMISSIVITY_RANGE)
+        _check("length_m", self.length_m, LENGTH_RANGE_M)
 
 
 @dataclass(frozen=True, slots=True)
@@ -136,7 +165,7 @@ class PipeHeatLoss:
     r_equivalent_flat_m2k_w: float
     layers: tuple[LayerResult, ...]
     iterations: int
-    warnings: tuple[str, ...]
+    cautions: tuple[PipeCaution, ...]
 
     @property
     def r_per_length_mk_w(self) -> float:
@@ -162,19 +191,17 @@ class AnnualHeatLoss:
     energy_kwh: float
 
 
-def _check(
-    parameter: str, value: float, bounds: tuple[float, float], describe: Callable[[float], str]
-) -> None:
-    """Raise PipeInputError unless 0 < low <= value <= high; ``describe`` words a bound."""
+def _check(parameter: str, value: float, bounds: tuple[float, float]) -> None:
+    """Raise PipeInputError unless 0 < low <= value <= high."""
     low, high = bounds
     if not math.isfinite(value):
-        raise PipeInputError(parameter, "must be a finite number (not NaN or infinity)")
+        raise PipeInputError(parameter, Problem.NOT_FINITE)
     if value <= 0:
-        raise PipeInputError(parameter, "must be greater than zero")
+        raise PipeInputError(parameter, Problem.NOT_POSITIVE)
     if value < low:
-        raise PipeInputError(parameter, f"must be at least {describe(low)}")
+        raise PipeInputError(parameter, Problem.BELOW_MINIMUM, low)
     if value > high:
-        raise PipeInputError(parameter, f"must be at most {describe(high)}")
+        raise PipeInputError(parameter, Problem.ABOVE_MAXIMUM, high)
 
 
 def layer_radii(pipe_outer_diameter_m: float, layers: tuple[PipeLayer, ...]) -> tuple[float, ...]:
@@ -297,9 +324,7 @@ def _solve(run: PipeRun) -> _Solution:
         for name, value in (("fluid_temperature_c", fluid), ("ambient_temperature_c", ambient)):
             if not AIR_TABLE_MIN_C <= value <= AIR_TABLE_MAX_C:
                 raise PipeInputError(
-                    name,
-                    f"is outside {_text_c(AIR_TABLE_MIN_C)} to {_text_c(AIR_TABLE_MAX_C)}, the "
-                    "range of the computed surface coefficient; give a surface coefficient",
+                    name, Problem.OUTSIDE_AIR_TABLE, AIR_TABLE_MIN_C, AIR_TABLE_MAX_C
                 )
 
         def coefficient_at(surface_c: float) -> float:
@@ -359,7 +384,7 @@ def pipe_heat_loss(run: PipeRun) -> PipeHeatLoss:
     PipeHeatLoss
         Per-length resistances [m·K/W], q' [W/m] and Q [W] (positive = loss), bare-pipe q'
         [W/m], surface temperature [°C], h [W/(m²·K)], equivalent flat R [m²·K/W], per-layer
-        results and warnings (plain sentences).
+        results and cautions (kinds and figures, see :func:`run_cautions`).
 
     References
     ----------
@@ -388,9 +413,9 @@ def pipe_heat_loss(run: PipeRun) -> PipeHeatLoss:
         r_equivalent_flat_m2k_w=equivalent_flat_resistance(run.pipe_outer_diameter_m, run.layers),
         layers=tuple(layer_results),
         iterations=solution.iterations,
-        warnings=(),
+        cautions=(),
     )
-    return replace(result, warnings=run_warnings(run, result))
+    return replace(result, cautions=run_cautions(run, result))
 
 
 def thickness_for_target(
@@ -428,9 +453,9 @@ def thickness_for_target(
     PipeInputError
         When even ``max_thickness_m`` of the insulation cannot meet the target.
     """
-    _check("conductivity_w_mk", conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK, _text_k)
+    _check("conductivity_w_mk", conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK)
     target = target_heat_loss_per_length_w_m
-    _check("target_heat_loss_per_length_w_m", target, TARGET_RANGE_W_M, text_q)
+    _check("target_heat_loss_per_length_w_m", target, TARGET_RANGE_W_M)
     bare = replace(run, layers=())
 
     def solve_at(thickness_m: float) -> _Solution:
@@ -451,9 +476,9 @@ def thickness_for_target(
     else:
         raise PipeInputError(
             "target_heat_loss_per_length_w_m",
-            f"cannot be met: even {text_mm(max_thickness_m)} of this insulation loses "
-            f"{text_q(abs(solution.heat_loss_per_length))}, more than the target; choose a "
-            "higher target or an insulation with a lower conductivity",
+            Problem.TARGET_UNREACHABLE,
+            max_thickness_m,
+            abs(solution.heat_loss_per_length),
         )
     low, high = previous, thickness
     for _ in range(_SOLVER_MAX_ITERATIONS):
@@ -486,75 +511,33 @@ def annual_heat_loss(heat_loss_w: float, hours_per_year: float) -> AnnualHeatLos
         Energy [J] and [kWh].
     """
     if not math.isfinite(heat_loss_w):
-        raise PipeInputError("heat_loss_w", "the heat loss must be a finite number")
-    _check("hours_per_year", hours_per_year, (0.0, HOURS_PER_LEAP_YEAR), "{:g} hours".format)
+        raise PipeInputError("heat_loss_w", Problem.RESULT_NOT_FINITE)
+    _check("hours_per_year", hours_per_year, (0.0, HOURS_PER_LEAP_YEAR))
     return AnnualHeatLoss(
         hours_per_year, heat_loss_w * hours_per_year * HOUR_S, heat_loss_w * hours_per_year / 1e3
     )
 
 
-def _text_c(value_c: float) -> str:
-    return f"{value_c:.0f} °C ({c_to_f(value_c):.0f} °F)"
-
-
-def _text_k(value_w_mk: float) -> str:
-    return f"{value_w_mk:.3g} W/(m·K) ({k_si_to_ip(value_w_mk):.3g} Btu·in/(h·ft²·°F))"
-
-
-def _text_h(value_w_m2k: float) -> str:
-    return f"{value_w_m2k:.3g} W/(m²·K) ({u_si_to_ip(value_w_m2k):.3g} Btu/(h·ft²·°F))"
-
-
-def _text_length(value_m: float) -> str:
-    return f"{value_m:g} m ({value_m / FOOT_M:g} ft)"
-
-
-def text_mm(value_m: float) -> str:
-    """A length [m] as plain words in both unit systems, e.g. ``19.0 mm (0.75 in)``."""
-    return f"{value_m * 1e3:.3g} mm ({value_m / INCH_M:.3g} in)"
-
-
-def text_q(value_w_m: float) -> str:
-    """A heat flow per length [W/m] in both unit systems."""
-    return f"{value_w_m:.3g} W/m ({value_w_m / Q_LENGTH_IP_IN_SI:.3g} Btu/(h·ft))"
-
-
-def run_warnings(run: PipeRun, result: PipeHeatLoss) -> tuple[str, ...]:
-    """Plain-sentence cautions about a computed run (values in both unit systems)."""
-    notes = []
+def run_cautions(run: PipeRun, result: PipeHeatLoss) -> tuple[PipeCaution, ...]:
+    """Cautions about a computed run, in this order: hot surface (above ``TOUCH_LIMIT_C`` [4]),
+    cold pipe (fluid below ambient), each layer under ``THIN_LAYER_M``, a given coefficient
+    outside ``PLAUSIBLE_H_W_M2K``, a Rayleigh number beyond the Churchill–Chu range, and
+    insulation that raises the heat flow (outer radius below r_cr = k/h [1], Example 3.6).
+    """
+    cautions = []
     if result.surface_temperature_c > TOUCH_LIMIT_C:
-        notes.append(
-            f"The outer surface reaches {_text_c(result.surface_temperature_c)}, above about "
-            f"{_text_c(TOUCH_LIMIT_C)}, where brief contact can burn skin (ASTM C1055 style "
-            "guidance, from memory): add insulation or guard the pipe."
-        )
+        cautions.append(PipeCaution(CautionKind.HOT_SURFACE, result.surface_temperature_c))
     if run.fluid_temperature_c < run.ambient_temperature_c:
-        notes.append(
-            "The pipe is colder than the air around it, so it gains heat (negative heat loss). "
-            f"Its outer surface is at {_text_c(result.surface_temperature_c)}: if that is below "
-            "the dew point of the air, water condenses on and inside the insulation, so cold "
-            "pipes need a continuous vapour-retarding jacket (common practice)."
-        )
+        cautions.append(PipeCaution(CautionKind.COLD_PIPE, result.surface_temperature_c))
     for index, layer in enumerate(run.layers):
         if layer.thickness_m < THIN_LAYER_M:
-            notes.append(
-                f"Layer {index + 1} is {text_mm(layer.thickness_m)} thick, thinner than "
-                f"practical pipe insulation (about {text_mm(THIN_LAYER_M)} at least, common "
-                "practice)."
-            )
+            cautions.append(PipeCaution(CautionKind.THIN_LAYER, layer.thickness_m, index))
     low, high = PLAUSIBLE_H_W_M2K
     given = run.surface_coefficient_w_m2k
     if given is not None and not low <= given <= high:
-        notes.append(
-            f"A surface coefficient of {_text_h(given)} is outside the usual range for pipes "
-            f"in air, about {_text_h(low)} to {_text_h(high)} (common practice): check the "
-            "value and its units."
-        )
+        cautions.append(PipeCaution(CautionKind.UNUSUAL_COEFFICIENT, given))
     if result.rayleigh is not None and result.rayleigh > CHURCHILL_CHU_MAX_RAYLEIGH:
-        notes.append(
-            f"The Rayleigh number {result.rayleigh:.2g} is above 1e12, beyond the range the "
-            "Churchill–Chu correlation was fitted to: treat the coefficient as an estimate."
-        )
+        cautions.append(PipeCaution(CautionKind.HIGH_RAYLEIGH, result.rayleigh))
     bare, insulated = (
         abs(result.bare_heat_loss_per_length_w_m),
         abs(result.heat_loss_per_length_w_m),
@@ -562,11 +545,5 @@ def run_warnings(run: PipeRun, result: PipeHeatLoss) -> tuple[str, ...]:
     if run.layers and insulated > bare * (1 + 1e-9):
         outer_k = run.layers[-1].conductivity_w_mk
         radius = critical_radius(outer_k, result.surface_coefficient_w_m2k)
-        notes.append(
-            f"This insulation raises the heat flow from {text_q(bare)} (bare) to "
-            f"{text_q(insulated)}: the outer radius, {text_mm(result.outer_diameter_m / 2)}, is "
-            f"below the critical radius k/h of about {text_mm(radius)}, so the added outer "
-            "surface sheds more heat than the layer holds back. Use a thicker layer or an "
-            "insulation with a lower conductivity."
-        )
-    return tuple(notes)
+        cautions.append(PipeCaution(CautionKind.RAISES_HEAT_FLOW, radius, len(run.layers) - 1))
+    return tuple(cautions)

@@ -9,6 +9,8 @@ References
 [1] NIST Special Publication 811 (2008), Guide for the Use of the International System of
     Units, appendix B (exact inch and foot; International Table Btu).
 [2] ASHRAE Handbook—Fundamentals (2021), ch. 38 "Units and Conversions".
+[3] ASHRAE Handbook—Fundamentals (2017), ch. 26 "Heat, Air, and Moisture Control in Building
+    Assemblies—Material Properties" (permeance units: 1 perm = 57.2 ng/(s·m²·Pa)).
 
 Exact and derived factors (all from [1], [2]):
 
@@ -17,6 +19,8 @@ Exact and derived factors (all from [1], [2]):
 * 1 °F (difference) = 5/9 K (exact).
 * 1 h·ft²·°F/Btu = 0.17611018 m²·K/W, so RSI = R / 5.678263.
 * 1 Btu·in/(h·ft²·°F) = 0.14422789 W/(m·K).
+* 1 grain = 64.79891 mg (exact); 1 inHg (conventional, 0 °C) = 3386.389 Pa; so
+  1 US perm = 1 grain/(h·ft²·inHg) = 57.2135 ng/(Pa·s·m²) ([1], [3]).
 """
 
 from __future__ import annotations
@@ -49,6 +53,12 @@ R_LENGTH_IP_IN_SI = FOOT_M * DELTA_F_K / BTU_PER_HOUR_W
 Q_LENGTH_IP_IN_SI = BTU_PER_HOUR_W / FOOT_M
 #: 1 kWh in Btu (= 3412.14)
 KWH_BTU = 3.6e6 / BTU_J
+#: 1 grain = 64.79891 mg exactly, NIST SP 811 [1] [kg].
+GRAIN_KG = 64.79891e-6
+#: Conventional inch of mercury (0 °C) = 3386.389 Pa, NIST SP 811 [1] [Pa].
+INCH_HG_PA = 3386.389
+#: 1 US perm = 1 grain/(h·ft²·inHg) = 57.2135 ng/(Pa·s·m²) ([1], [3]).
+US_PERM_NG_PER_PA_S_M2 = GRAIN_KG * 1e12 / (HOUR_S * SQFT_M2 * INCH_HG_PA)
 
 
 def r_ip_to_si(r_ip: float) -> float:
@@ -99,6 +109,16 @@ def delta_f_to_k(delta_f: float) -> float:
 def delta_k_to_f(delta_k: float) -> float:
     """Temperature difference or degree-days [K(·day)] -> [°F(·day)]."""
     return delta_k / DELTA_F_K
+
+
+def us_perms_to_permeance(perms: float) -> float:
+    """Vapour permeance: US perms [grain/(h·ft²·inHg)] -> [ng/(Pa·s·m²)] ([1], [3])."""
+    return perms * US_PERM_NG_PER_PA_S_M2
+
+
+def permeance_to_us_perms(permeance_ng_per_pa_s_m2: float) -> float:
+    """Vapour permeance: [ng/(Pa·s·m²)] -> US perms [grain/(h·ft²·inHg)] ([1], [3])."""
+    return permeance_ng_per_pa_s_m2 / US_PERM_NG_PER_PA_S_M2
 
 
 # --- quantity tables used at the edges -------------------------------------------------------

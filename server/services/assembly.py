@@ -269,7 +269,7 @@ def evaluate_assembly(
         )
     return AssemblyResult(
         units=units,
-        films=FilmsOut(inside=r_out(films.inside_r_si), outside=r_out(films.outside_r_si)),
+        films=FilmsOut(inside=r_out(films.inside_r_m2k_w), outside=r_out(films.outside_r_m2k_w)),
         outside_film=outside_film,
         r_parallel_path=r_out(result.r_parallel_path_si),
         r_isothermal_planes=r_out(result.r_isothermal_planes_si),

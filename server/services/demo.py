@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import copy
+from collections.abc import Mapping
+from typing import Any
 
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from server.models import House, Package, Upgrade
+from server.models import House, Package, Surface, Upgrade
 from server.services.houses import add_surface, create_house, default_organization
 from server.services.typical import typical_assemblies
 
@@ -21,6 +23,9 @@ DEMO_SURFACES = [
     ("floor-2x10-16-empty", "Floor over crawlspace", 860.0),
     ("rim-2x10-empty", "Rim joist", 120.0),
 ]
+
+#: the demo upgrades that are not a new assembly for a surface (``upgrades.kind``)
+DEMO_UPGRADE_KINDS = {"air-seal": "air_sealing"}
 
 
 def load_demo_house(*, session: Session) -> int:
@@ -60,7 +65,10 @@ def load_demo_house(*, session: Session) -> int:
         surfaces[typical] = surface
     by_slug = {s.slug: s.id for s in surfaces.values()}
     for i, (slug, name, document) in enumerate(_demo_upgrades(surfaces)):
-        upgrade = Upgrade(house=house, position=i, slug=slug, name=name, kind="", document=document)
+        kind = DEMO_UPGRADE_KINDS.get(slug, "assembly")
+        upgrade = Upgrade(
+            house=house, position=i, slug=slug, name=name, kind=kind, document=document
+        )
         upgrade.surface_id = by_slug.get(document.get("surface", ""))
         session.add(upgrade)
     session.add(Package(house=house, position=0, slug="attic-and-air", name="Attic + air sealing",
@@ -71,7 +79,7 @@ def load_demo_house(*, session: Session) -> int:
     return house.id
 
 
-def _demo_upgrades(surfaces):  # type: ignore[no-untyped-def]
+def _demo_upgrades(surfaces: Mapping[str, Surface]) -> list[tuple[str, str, dict[str, Any]]]:
     """Candidate upgrades with invented but plausible prices (demo data, not a price list)."""
     typ = typical_assemblies()
     attic = copy.deepcopy(typ["attic-2x6-16-empty"].document_ip)

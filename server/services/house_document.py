@@ -44,8 +44,13 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
                 "id": u.slug,
                 "name": u.name,
                 **priced_document(
-                    u.document, prices, units=house.units, field=f"upgrades[{i}].price_item"
+                    u.document,
+                    prices,
+                    kind=u.kind,
+                    units=house.units,
+                    field=f"upgrades[{i}].price_item",
                 ),
+                **({"kind": u.kind} if u.kind else {}),  # the row's kind, not a guess from keys
             }
             for i, u in enumerate(house.upgrades)
         ],  # fmt: skip
@@ -71,7 +76,7 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
 
 def _surface(s: Surface) -> dict[str, Any]:
     if s.kind == "pipe_run":
-        return {"id": s.slug, "kind": s.kind, "name": s.name, "length": s.area,
+        return {"id": s.slug, "kind": s.kind, "name": s.name, "length": s.length,
                 "pipe": s.details.get("pipe"), "hours_per_year": s.details.get("hours_per_year")}  # fmt: skip
     return {"id": s.slug, "kind": s.kind, "name": s.name, "area": s.area, "assembly": s.assembly}
 
@@ -125,7 +130,7 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
     for i, s in enumerate(document.surfaces):
         if s.kind == "pipe_run":
             session.add(Surface(house=house, position=i, slug=s.id, name=s.name or s.id, kind=s.kind,
-                                area=s.length or 0.0, assembly={},
+                                area=None, length=s.length or 0.0, assembly={},
                                 details={"pipe": s.pipe.model_dump(exclude_none=True) if s.pipe else {},
                                          "hours_per_year": s.hours_per_year}))  # fmt: skip
             continue

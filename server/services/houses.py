@@ -256,6 +256,8 @@ def update_surface(
     expected_version: int | None,
 ) -> None:  # fmt: skip
     check_version(house, expected_version)
+    if surface.kind == "pipe_run":  # its length and pipe are set on the pipe run's own form
+        raise InputError("kind", "a pipe run stays a pipe run: delete it to add a surface instead")
     if kind not in SURFACE_KINDS:
         raise InputError("kind", "choose what kind of surface this is")
     if not (area > 0 and area < 1e7):
@@ -304,9 +306,8 @@ def surface_rows(
             rows.append(SurfaceRow(surface, None, None, None, str(exc)))
             continue
         verdict = code_verdict(house.climate, surface.kind, result, targets)
-        rows.append(
-            SurfaceRow(surface, result, result.u_factor * surface.area, None, None, verdict)
-        )
+        ua = result.u_factor * (surface.area or 0.0)  # every surface but a pipe run has an area
+        rows.append(SurfaceRow(surface, result, ua, None, None, verdict))
     total = sum(r.ua or 0.0 for r in rows)
     for row in rows:
         if row.ua is not None and total > 0:
@@ -326,13 +327,13 @@ def switch_units(
         return
     for surface in house.surfaces:
         if surface.kind == "pipe_run":
-            surface.area = cv.convert_value(surface.area, "length", src, units)
+            surface.length = cv.convert_value(surface.length or 0.0, "length", src, units)
             details = dict(surface.details)
             details["pipe"] = cv.convert_pipe(details.get("pipe") or {}, src, units)
             surface.details = details
         else:
             surface.assembly = cv.convert_assembly(surface.assembly, src, units)
-            surface.area = cv.convert_value(surface.area, "area", src, units)
+            surface.area = cv.convert_value(surface.area or 0.0, "area", src, units)
     for upgrade in house.upgrades:
         upgrade.document = cv.convert_upgrade(upgrade.document, src, units)
     if house.climate:
@@ -383,7 +384,7 @@ def add_pipe_run(
     name = name.strip() or "Pipe run"
     surface = Surface(
         house=house, position=len(house.surfaces), slug=unique_slug(name, {s.slug for s in house.surfaces}),
-        name=name[:200], kind="pipe_run", area=length, assembly={},
+        name=name[:200], kind="pipe_run", area=None, length=length, assembly={},
         details={"pipe": spec, "hours_per_year": hours_per_year},
     )  # fmt: skip
     session.add(surface)
@@ -405,7 +406,7 @@ def pipe_rows(house: House) -> list[tuple[Surface, Any]]:
             from server.services.systems import pipe_request_fields
 
             request = PipeRequest.model_validate(
-                {"units": house.units, **pipe_request_fields(surface.details["pipe"]), "length": surface.area,
+                {"units": house.units, **pipe_request_fields(surface.details["pipe"]), "length": surface.length,
                  "hours_per_year": surface.details.get("hours_per_year")}
             )  # fmt: skip
             rows.append((surface, compute_pipe(request)))

@@ -6,9 +6,10 @@ from dataclasses import dataclass
 
 from server.documents.assembly import AssemblyInput, AssemblyResult
 from server.documents.common import Units
-from server.physics.condensation import CondensationResult, VapourLayer, glaser_check, summary_words
+from server.physics.condensation import CondensationResult, VapourLayer, glaser_check
 from server.physics.units import temp_to_c, to_si
 from server.services.catalog import Catalog
+from server.services.condensation_words import summary_words
 
 #: winter design condition used when the house gives none (common practice, from memory)
 INDOOR_C, INDOOR_RH = 21.0, 0.40

@@ -18,6 +18,7 @@ from server.physics.units import (
     temp_to_c,
     to_si,
 )
+from server.services.pipe_words import run_warnings, value_error_words
 
 _MM_M = 1e-3  # the API's SI thickness and diameter are in mm; physics takes m
 
@@ -58,7 +59,7 @@ def _build_run(request: PipeRequest) -> physics.PipeRun:
             )
         except ValueError as error:
             field = _field(error, f"layers[{index}]", f"layers[{index}].")
-            raise InputError(field, str(error)) from error
+            raise InputError(field, value_error_words(error)) from error
     coefficient = request.surface_coefficient
     try:
         return physics.PipeRun(
@@ -73,7 +74,7 @@ def _build_run(request: PipeRequest) -> physics.PipeRun:
             length_m=to_si(request.length, "length", units),
         )
     except ValueError as error:
-        raise InputError(_field(error, "body"), str(error)) from error
+        raise InputError(_field(error, "body"), value_error_words(error)) from error
 
 
 def _target_conductivity(request: PipeRequest) -> float | None:
@@ -101,7 +102,7 @@ def compute_pipe(request: PipeRequest) -> PipeResult:
     try:
         result = physics.pipe_heat_loss(run)
     except ValueError as error:
-        raise InputError(_field(error, "body"), str(error)) from error
+        raise InputError(_field(error, "body"), value_error_words(error)) from error
 
     def out(value: float, quantity: str) -> float:
         return from_si(value, quantity, units)
@@ -117,7 +118,7 @@ def compute_pipe(request: PipeRequest) -> PipeResult:
         try:
             energy = physics.annual_heat_loss(result.heat_loss_w, request.hours_per_year)
         except ValueError as error:
-            raise InputError("hours_per_year", str(error)) from error
+            raise InputError("hours_per_year", value_error_words(error)) from error
         annual_kwh = energy.energy_kwh
         annual = energy.energy_kwh if units == "si" else energy.energy_j / BTU_J
 
@@ -133,7 +134,7 @@ def compute_pipe(request: PipeRequest) -> PipeResult:
             field = "target_conductivity" if request.target_conductivity is not None else None
             if getattr(error, "parameter", None) != "conductivity_w_mk" or field is None:
                 field = "target_heat_loss_per_length"
-            raise InputError(field, str(error)) from error
+            raise InputError(field, value_error_words(error)) from error
         thickness = out_mm(found.thickness_m, "thickness")
         at_target = out(found.heat_loss_per_length_w_m, "q_per_length")
 
@@ -148,7 +149,7 @@ def compute_pipe(request: PipeRequest) -> PipeResult:
         )
         for layer_in, layer in zip(request.layers, result.layers, strict=True)
     ]
-    warnings = list(result.warnings)
+    warnings = run_warnings(result)
     if request.surface_coefficient is not None and "emissivity" in request.model_fields_set:
         warnings.append("The emissivity is not used when the surface coefficient is given.")
     return PipeResult(

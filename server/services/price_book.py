@@ -45,11 +45,23 @@ UPGRADE_TYPES: dict[str, str] = {
     "pipe_insulation": "Pipe insulation",
     "other": "Other work",
 }
-#: which pricing suits which kind of upgrade (air sealing has no area or length)
+#: which pricing suits which kind of upgrade (``upgrades.kind``; air sealing has no area or
+#: length), and how a refusal names it: the priced shapes of server.documents.house.UpgradeIn
 BASES_FOR_KIND: dict[str, tuple[str, ...]] = {
     "assembly": ("per_area", "fixed"),
+    "window": ("per_area", "fixed"),
     "pipe_insulation": ("per_length", "fixed"),
     "air_sealing": ("fixed",),
+    "duct_sealing": ("fixed",),
+    "duct_insulation": ("per_area", "fixed"),
+}
+KIND_WORDS: dict[str, str] = {
+    "assembly": "an insulation upgrade",
+    "window": "a window upgrade",
+    "pipe_insulation": "pipe insulation",
+    "air_sealing": "air sealing",
+    "duct_sealing": "duct sealing",
+    "duct_insulation": "duct insulation",
 }
 EXAMPLE_NOTE = "example — replace with your own"
 #: starting rows for a new firm. NOT real prices: round placeholders, marked as examples.
@@ -119,25 +131,13 @@ def price_upgrade(
     return float(item.fixed_cost) + per_unit * quantity
 
 
-def upgrade_kind(document: dict[str, Any]) -> str:
-    """assembly | air_sealing | pipe_insulation, worked out as the house document does."""
-    kind = document.get("kind")
-    if kind in BASES_FOR_KIND:
-        return str(kind)
-    if document.get("cfm50_after") is not None or document.get("n50_after") is not None:
-        return "air_sealing"
-    if document.get("pipe_layers") is not None:
-        return "pipe_insulation"
-    return "assembly"
-
-
-def check_fits(document: dict[str, Any], item: PriceSource, *, field: str = "price_item") -> None:
-    """Refuse an item whose pricing does not suit the upgrade (e.g. per area on air sealing)."""
-    kind = upgrade_kind(document)
-    if item.basis not in BASES_FOR_KIND[kind]:
-        words = {"assembly": "an insulation upgrade", "pipe_insulation": "pipe insulation",
-                 "air_sealing": "air sealing"}[kind]  # fmt: skip
-        allowed = " or ".join(BASES[b] for b in BASES_FOR_KIND[kind])
+def check_fits(item: PriceSource, *, kind: str, field: str = "price_item") -> None:
+    """Refuse an item whose pricing does not suit an upgrade of ``kind`` (``upgrades.kind``),
+    e.g. per area on air sealing; an unknown kind takes only a fixed price."""
+    allowed_bases = BASES_FOR_KIND.get(kind, ("fixed",))
+    if item.basis not in allowed_bases:
+        words = KIND_WORDS.get(kind, "this upgrade")
+        allowed = " or ".join(BASES[b] for b in allowed_bases)
         raise InputError(
             field,
             f"'{item.name}' is priced {BASES[item.basis]}; {words} takes a price {allowed}",
@@ -145,15 +145,16 @@ def check_fits(document: dict[str, Any], item: PriceSource, *, field: str = "pri
 
 
 def apply_price_item(
-    document: dict[str, Any], item: PriceSource, *, units: str, field: str = "price_item"
-) -> dict[str, Any]:
+    document: dict[str, Any], item: PriceSource, *, kind: str, units: str,
+    field: str = "price_item",
+) -> dict[str, Any]:  # fmt: skip
     """A copy of the upgrade document with ``cost`` from ``item`` in the house's ``units``.
 
     per_area -> {fixed, per_area}; per_length -> {fixed, per_length}; fixed -> {fixed}.
     The house calculator then computes fixed + per_area × area (+ per_length × length), which
     is :func:`price_upgrade` of the surface's area or the pipe run's length.
     """
-    check_fits(document, item, field=field)
+    check_fits(item, kind=kind, field=field)
     cost: dict[str, float] = {"fixed": float(item.fixed_cost)}
     if item.basis != "fixed":
         cost[item.basis] = unit_cost_in(item, units)
@@ -180,7 +181,9 @@ def link_price_item(
         items = {i.slug: i for i in list_items(session=session, organization_id=organization_id)}
         if price_item not in items:
             raise InputError("price_item", "there is no such item in the price book")
-        document = apply_price_item(upgrade.document, items[price_item], units=house.units)
+        document = apply_price_item(
+            upgrade.document, items[price_item], kind=upgrade.kind, units=house.units
+        )
     else:
         document = {k: v for k, v in upgrade.document.items() if k != "price_item"}
     upgrade.document = document
@@ -188,7 +191,7 @@ def link_price_item(
 
 
 def priced_document(
-    document: dict[str, Any], items: dict[str, PriceSource], *, units: str, field: str
+    document: dict[str, Any], items: dict[str, PriceSource], *, kind: str, units: str, field: str
 ) -> dict[str, Any]:
     """The upgrade document as the calculator takes it: priced from its item when linked.
 
@@ -200,7 +203,7 @@ def priced_document(
         return {k: v for k, v in document.items() if k != "price_item"}
     out = document
     if slug in items:
-        out = apply_price_item(document, items[slug], units=units, field=field)
+        out = apply_price_item(document, items[slug], kind=kind, units=units, field=field)
     return {k: v for k, v in out.items() if k != "price_item"}
 
 
@@ -336,7 +339,9 @@ def delete_item(*, session: Session, organization_id: int, item_id: int) -> None
         if (upgrade.document or {}).get("price_item") != item.slug:
             continue
         try:
-            document = apply_price_item(upgrade.document, item, units=upgrade.house.units)
+            document = apply_price_item(
+                upgrade.document, item, kind=upgrade.kind, units=upgrade.house.units
+            )
         except InputError:  # no longer fits: keep the cost the upgrade already holds
             document = upgrade.document
         upgrade.document = {k: v for k, v in document.items() if k != "price_item"}

@@ -16,6 +16,22 @@ from server.services.catalog import Catalog
 from server.services.houses import NotFound, check_version, checked_assembly, touch, unique_slug
 from server.services.typical import typical_assemblies
 
+#: what an upgrade of each kind (``upgrades.kind``) is priced per besides its fixed part, as
+#: server.documents.house.UpgradeIn takes it; air and duct sealing are priced fixed only
+PRICED_PER: dict[str, str] = {
+    "assembly": "area",
+    "window": "area",
+    "duct_insulation": "area",
+    "pipe_insulation": "length",
+}
+#: the kinds whose document may hold an assembly (edited in the layer editor)
+ASSEMBLY_KINDS = ("assembly", "window")
+
+
+def edits_assembly(upgrade: Upgrade) -> bool:
+    """Whether the upgrade has an assembly for the layer editor (not an r or u alone)."""
+    return upgrade.kind in ASSEMBLY_KINDS and upgrade.document.get("assembly") is not None
+
 
 def _slug(text: str, taken: set[str]) -> str:
     return unique_slug(text, taken, fallback="upgrade")
@@ -126,15 +142,9 @@ def update_upgrade(
     check_version(house, expected_version)
     doc = dict(upgrade.document)
     doc.pop("price_item", None)  # typed prices replace a price-book link
-    doc.update(
-        _costs(
-            fixed,
-            per_area if ("assembly" in doc or "pipe_layers" in doc) else 0.0,
-            rebate,
-            life_years,
-        )
-    )
-    if "pipe_layers" in doc:  # pipe insulation is priced per length, not per area
+    per = PRICED_PER.get(upgrade.kind)
+    doc.update(_costs(fixed, per_area if per else 0.0, rebate, life_years))
+    if per == "length":  # pipe insulation is priced per length, not per area
         doc["cost"] = {"fixed": doc["cost"]["fixed"], "per_length": doc["cost"]["per_area"]}
     upgrade.document = doc
     upgrade.name = (name.strip() or upgrade.name)[:200]
@@ -181,7 +191,7 @@ def add_package(
     if not chosen:
         raise InputError("upgrades", "tick at least one upgrade for the package")
     targets = [
-        known[s].document.get("surface") or ("air" if known[s].document.get("cfm50_after") else s)
+        "air" if known[s].kind == "air_sealing" else known[s].document.get("surface") or s
         for s in chosen
     ]
     if len(set(targets)) != len(targets):

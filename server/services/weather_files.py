@@ -685,7 +685,9 @@ def _keep_plausible(raw: _Raw, notes: list[str]) -> tuple[list[int], Sequence[fl
     return stamps, values
 
 
-def _dedupe(raw: _Raw, stamps: list[int], values: Sequence[float], notes: list[str]):
+def _dedupe(
+    raw: _Raw, stamps: list[int], values: Sequence[float], notes: list[str]
+) -> tuple[list[int], Sequence[float]]:
     if len(set(stamps)) < len(stamps):
         first: dict[int, float] = {}
         for stamp, value in zip(stamps, values, strict=True):

@@ -19,6 +19,7 @@ from __future__ import annotations
 from typing import Annotated, Any
 
 from fastapi import Depends, Request
+from fastapi.responses import HTMLResponse
 from fastapi.templating import Jinja2Templates
 from jinja2 import pass_context
 from markupsafe import Markup
@@ -162,7 +163,9 @@ def make_templates(*, auto_reload: bool = True) -> Jinja2Templates:
     return templates
 
 
-def render(request: Request, name: str, context: dict[str, Any], status_code: int = 200):  # type: ignore[no-untyped-def]
+def render(
+    request: Request, name: str, context: dict[str, Any], status_code: int = 200
+) -> HTMLResponse:
     """Render a template; ``is_htmx`` tells a template whether only a fragment is wanted."""
     templates: Jinja2Templates = request.app.state.templates
     context = {"is_htmx": request.headers.get("HX-Request") == "true", **context}

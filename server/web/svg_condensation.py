@@ -17,8 +17,9 @@ import re
 import textwrap
 from html import escape
 
-from server.physics.condensation import CondensationResult, Plane, summary_words
+from server.physics.condensation import CondensationResult, Plane
 from server.physics.units import UnitSystem, temp_from_c
+from server.services.condensation_words import summary_words
 
 WIDTH = 640
 LEFT, RIGHT, TOP = 56.0, 20.0, 34.0
@@ -59,7 +60,9 @@ def _band_widths(result: CondensationResult, plot_width: float) -> tuple[list[fl
     return widths, by_thickness
 
 
-def _plane_x(result: CondensationResult, plane: Plane, starts: list[float], widths: list[float]):
+def _plane_x(
+    result: CondensationResult, plane: Plane, starts: list[float], widths: list[float]
+) -> float:
     k = plane.layer_index
     if plane.kind == "outside surface":
         return starts[0]

@@ -172,7 +172,7 @@ def test_limit_no_framed_layer_all_equal() -> None:
 def test_limit_films_none_is_zero() -> None:
     # films 'none': both film resistances zero, total = layers alone
     films = surface_films("none", "up")
-    assert films.inside_r_si == 0.0 and films.outside_r_si == 0.0
+    assert films.inside_r_m2k_w == 0.0 and films.outside_r_m2k_w == 0.0
     result = assembly_resistance([Layer("a", 1.25)], films)
     assert result.r_parallel_path_si == pytest.approx(1.25, rel=1e-12)
 
@@ -188,8 +188,8 @@ def test_limit_films_none_is_zero() -> None:
 )
 def test_ashrae_films(heat_flow: str, inside_ip: float) -> None:
     films = surface_films("ashrae", heat_flow)  # type: ignore[arg-type]
-    assert r_si_to_ip(films.inside_r_si) == pytest.approx(inside_ip, rel=1e-9)
-    assert r_si_to_ip(films.outside_r_si) == pytest.approx(0.17, rel=1e-9)
+    assert r_si_to_ip(films.inside_r_m2k_w) == pytest.approx(inside_ip, rel=1e-9)
+    assert r_si_to_ip(films.outside_r_m2k_w) == pytest.approx(0.17, rel=1e-9)
 
 
 @pytest.mark.parametrize(
@@ -199,9 +199,9 @@ def test_ashrae_films(heat_flow: str, inside_ip: float) -> None:
 )
 def test_iso6946_films(heat_flow: str, rsi: float) -> None:
     films = surface_films("iso6946", heat_flow)  # type: ignore[arg-type]
-    assert films.inside_r_si == pytest.approx(rsi, rel=1e-12)
-    assert films.outside_r_si == pytest.approx(0.04, rel=1e-12)
-    assert films.total_r_si == pytest.approx(rsi + 0.04, rel=1e-12)
+    assert films.inside_r_m2k_w == pytest.approx(rsi, rel=1e-12)
+    assert films.outside_r_m2k_w == pytest.approx(0.04, rel=1e-12)
+    assert films.total_r_m2k_w == pytest.approx(rsi + 0.04, rel=1e-12)
 
 
 def test_films_bad_choices() -> None:

@@ -198,11 +198,11 @@ def test_still_air_films_are_the_handbook_values(heat_flow: str, still_ip: float
     # ASHRAE Handbook—Fundamentals surface-film table, still air, non-reflective surfaces:
     # horizontal, up, down R-0.92 (h·ft²·°F/Btu); outdoors 15 mph wind.
     still = surface_films("ashrae", heat_flow, "still_air")  # type: ignore[arg-type]
-    assert still.outside_r_si == pytest.approx(still_ip * R_IP_SI, rel=1e-9)
-    assert still.inside_r_si == pytest.approx(still_ip * R_IP_SI, rel=1e-9)
+    assert still.outside_r_m2k_w == pytest.approx(still_ip * R_IP_SI, rel=1e-9)
+    assert still.inside_r_m2k_w == pytest.approx(still_ip * R_IP_SI, rel=1e-9)
     wind = surface_films("ashrae", heat_flow)  # type: ignore[arg-type]
-    assert wind.outside_r_si == pytest.approx(0.17 * R_IP_SI, rel=1e-9)
-    assert wind.inside_r_si == still.inside_r_si
+    assert wind.outside_r_m2k_w == pytest.approx(0.17 * R_IP_SI, rel=1e-9)
+    assert wind.inside_r_m2k_w == still.inside_r_m2k_w
 
 
 @pytest.mark.parametrize(("heat_flow", "rsi"), [("horizontal", 0.13), ("up", 0.10), ("down", 0.17)])
@@ -210,9 +210,9 @@ def test_iso6946_unconditioned_side_takes_rsi(heat_flow: str, rsi: float) -> Non
     # ISO 6946 Table 7: Rsi 0.13 / 0.10 / 0.17, Rse 0.04 m²·K/W; next to an unconditioned space
     # the outer face takes Rsi of the same direction (from memory).
     still = surface_films("iso6946", heat_flow, "still_air")  # type: ignore[arg-type]
-    assert (still.inside_r_si, still.outside_r_si) == (rsi, rsi)
-    assert surface_films("iso6946", heat_flow).outside_r_si == 0.04  # type: ignore[arg-type]
-    assert surface_films("none", heat_flow, "still_air").total_r_si == 0.0  # type: ignore[arg-type]
+    assert (still.inside_r_m2k_w, still.outside_r_m2k_w) == (rsi, rsi)
+    assert surface_films("iso6946", heat_flow).outside_r_m2k_w == 0.04  # type: ignore[arg-type]
+    assert surface_films("none", heat_flow, "still_air").total_r_m2k_w == 0.0  # type: ignore[arg-type]
 
 
 def test_unknown_outside_film_is_refused() -> None:

@@ -31,16 +31,19 @@ from hypothesis import strategies as st
 
 from server.physics.condensation import (
     DELTA_0_KG_M_S_PA,
-    SCREENING_NOTE,
-    US_PERM_NG_PER_PA_S_M2,
     VapourLayer,
     glaser_check,
+    permeance_from_sd,
     sd_from_mu,
     sd_from_permeance,
     sd_from_us_perms,
-    summary_words,
+)
+from server.physics.units import (
+    US_PERM_NG_PER_PA_S_M2,
+    permeance_to_us_perms,
     us_perms_to_permeance,
 )
+from server.services.condensation_words import SCREENING_NOTE, summary_words
 from server.web.svg_condensation import condensation_svg
 
 psychrolib.SetUnitSystem(psychrolib.SI)
@@ -151,18 +154,26 @@ def test_us_perm_against_pint():
     one_perm = ureg.Quantity(1, "grain/(hour*foot**2*inHg)").to("ng/(s*m**2*Pa)").magnitude
     assert US_PERM_NG_PER_PA_S_M2 == pytest.approx(one_perm, rel=1e-6)
     assert us_perms_to_permeance(2.0) == pytest.approx(2 * 57.2135, rel=1e-6)
+    assert permeance_to_us_perms(one_perm) == pytest.approx(1.0, rel=1e-6)
 
 
 def test_sd_from_permeance_and_perms():
     # sd = delta_0 / W: 2e-10 kg/(m·s·Pa) = 200 ng/(m·s·Pa), so W = 200 ng/(Pa·s·m²) -> 1 m.
     assert DELTA_0_KG_M_S_PA == 2.0e-10
     assert sd_from_permeance(200.0) == pytest.approx(1.0, rel=1e-12)
+    # and back: W = 200 / sd, so sd = 3.4957 m (1 perm) -> 57.2135 ng/(Pa·s·m²)
+    assert permeance_from_sd(1.0) == pytest.approx(200.0, rel=1e-12)
+    assert permeance_from_sd(200 / 57.2135) == pytest.approx(57.2135, rel=1e-12)
     # 1 perm: 200 / 57.2135 = 3.4957 m; 0.06 perm (polyethylene, from memory): 58.26 m.
     assert sd_from_us_perms(1.0) == pytest.approx(3.4957, abs=1e-4)
     assert sd_from_us_perms(0.06) == pytest.approx(58.26, abs=0.01)
     # sd = mu × d: 150 × 0.011 m = 1.65 m.
     assert sd_from_mu(150.0, 0.011) == pytest.approx(1.65, rel=1e-12)
-    for bad in (lambda: sd_from_mu(0.5, 0.1), lambda: sd_from_permeance(0.0)):
+    for bad in (
+        lambda: sd_from_mu(0.5, 0.1),
+        lambda: sd_from_permeance(0.0),
+        lambda: permeance_from_sd(0.0),
+    ):
         with pytest.raises(ValueError):
             bad()
 
@@ -185,7 +196,8 @@ def test_no_vapour_resistance_anywhere_uses_still_air_and_flags_only_at_the_dew_
             outside_surface_resistance_m2k_w=0.0,
         )
         assert result.effective_sd_m == (0.100,)
-        assert any("still air" in note for note in result.notes)
+        assert result.still_air_floored_layers == (0,)
+        assert any("still air" in note for note in summary_words(result))
         p_i, p_e = indoor_rh * PSAT(21.0), 0.80 * PSAT(-10.0)
         for j, plane in enumerate(result.planes):
             theta, p_line = -10.0 + 3.1 * j, p_e + (p_i - p_e) * j / 10

@@ -12,9 +12,12 @@ from hypothesis import strategies as st
 from server.documents.pipe import PipeRequest
 from server.errors import InputError
 from server.physics.pipe import (
+    CautionKind,
+    PipeCaution,
     PipeInputError,
     PipeLayer,
     PipeRun,
+    Problem,
     annual_heat_loss,
     critical_radius,
     cylinder_resistance_per_length,
@@ -23,6 +26,7 @@ from server.physics.pipe import (
     thickness_for_target,
 )
 from server.services.pipe import compute_pipe
+from server.services.pipe_words import caution_words, error_words, run_warnings
 
 QUICK = settings(max_examples=200, deadline=None)
 FEW = settings(max_examples=40, deadline=None)
@@ -70,7 +74,7 @@ def test_hand_worked_22_mm_pipe_19_mm_insulation() -> None:
     assert result.r_equivalent_flat_m2k_w == pytest.approx(0.8599732, rel=1e-6)
     assert result.bare_heat_loss_per_length_w_m == pytest.approx(24.88141, rel=1e-6)
     assert result.outer_diameter_m == pytest.approx(0.060, rel=1e-12)
-    assert result.warnings == ()
+    assert result.cautions == ()
 
 
 def test_hand_worked_two_layers() -> None:
@@ -132,7 +136,8 @@ def test_cold_pipe_gains_heat_and_is_warned_about() -> None:
     cold = pipe_heat_loss(_run(22, [(19, 0.035)], 5, 25, h=9.0))
     hot = pipe_heat_loss(_run(22, [(19, 0.035)], 45, 25, h=9.0))
     assert cold.heat_loss_per_length_w_m == pytest.approx(-hot.heat_loss_per_length_w_m)
-    assert any("vapour-retarding" in note for note in cold.warnings)
+    assert [c.kind for c in cold.cautions] == [CautionKind.COLD_PIPE]
+    assert any("vapour-retarding" in note for note in run_warnings(cold))
     computed = pipe_heat_loss(_run(22, [(19, 0.035)], 5, 25))
     assert computed.heat_loss_per_length_w_m < 0
     assert 5 < computed.surface_temperature_c < 25
@@ -148,7 +153,9 @@ def test_critical_radius_small_pipe_poor_insulation() -> None:
     result = pipe_heat_loss(_run(6, [(5, 0.2)], 80, 20, h=9.0))
     assert result.bare_heat_loss_per_length_w_m == pytest.approx(10.17876, rel=1e-6)
     assert result.heat_loss_per_length_w_m == pytest.approx(20.06015, rel=1e-6)
-    assert any("critical radius" in note for note in result.warnings)
+    assert any("critical radius" in note for note in run_warnings(result))
+    raises = [c for c in result.cautions if c.kind is CautionKind.RAISES_HEAT_FLOW]
+    assert raises[0].value == pytest.approx(0.2 / 9, rel=1e-12)  # r_cr = k/h
     # The loss peaks where the outer radius equals k/h: q'(r_cr) = 60 / (ln(22.22/3)/1.2566 +
     # 1/(2 pi 0.02222 * 9)) = 60 / (1.593458 + 0.795775) = 25.11198 W/m; nearby radii lose less.
     peak_mm = (0.2 / 9 - 0.003) * 1e3
@@ -165,7 +172,13 @@ def test_warnings_hot_surface_thin_layer_odd_coefficient() -> None:
     # Ts = 20 + 70 * 11.36821/12.46484 = 83.84 °C > 60 °C (ASTM C1055 style, from memory).
     result = pipe_heat_loss(_run(22, [(3, 0.035)], 90, 20, h=1.0))
     assert result.surface_temperature_c == pytest.approx(83.8415, abs=1e-3)
-    text = " ".join(result.warnings)
+    assert [c.kind for c in result.cautions] == [
+        CautionKind.HOT_SURFACE,
+        CautionKind.THIN_LAYER,
+        CautionKind.UNUSUAL_COEFFICIENT,
+        CautionKind.RAISES_HEAT_FLOW,
+    ]
+    text = " ".join(run_warnings(result))
     assert "burn" in text
     assert "thinner than practical" in text
     assert "outside the usual range" in text
@@ -206,8 +219,11 @@ def test_target_thickness_past_the_critical_radius() -> None:
     assert _loss_formula(0.011, found.thickness_m, 0.15, 9.0, 40) == pytest.approx(20.0, rel=1e-5)
     # 6 mm pipe, k = 0.2, h = 9: even 500 mm only gets down to 60/(ln(503/3)/1.2566 + 0.0352)
     # = 14.6 W/m, above its bare loss of 10.18 W/m: any target below the bare loss is out of reach.
-    with pytest.raises(PipeInputError, match="cannot be met"):
+    with pytest.raises(PipeInputError) as caught:
         thickness_for_target(_run(6, [], 80, 20, h=9.0), 0.2, 5.0)
+    assert caught.value.problem is Problem.TARGET_UNREACHABLE
+    assert caught.value.figures[1] == pytest.approx(14.6, abs=0.05)
+    assert error_words(caught.value).startswith("cannot be met: even 500 mm (19.7 in)")
 
 
 def test_target_already_met_and_unreachable() -> None:
@@ -215,9 +231,13 @@ def test_target_already_met_and_unreachable() -> None:
     assert thickness_for_target(_run(22, [], 55, 15, h=9.0), 0.035, 30.0).thickness_m == 0.0
     # 500 mm of k = 0.035: R' = ln(511/11)/0.2199115 + 1/(2 pi 0.511 * 9) = 17.4545 + 0.0346
     # -> q' = 2.29 W/m, so 0.01 W/m cannot be reached.
-    with pytest.raises(PipeInputError, match="cannot be met") as caught:
+    with pytest.raises(PipeInputError) as caught:
         thickness_for_target(_run(22, [], 55, 15, h=9.0), 0.035, 0.01)
     assert caught.value.parameter == "target_heat_loss_per_length_w_m"
+    assert "cannot be met" in error_words(caught.value)
+    # 1 Btu/(h·ft) = 0.29307107 W / 0.3048 m = 0.961519 W/m;
+    # 40 / 17.4891 = 2.2871 W/m = 2.379 Btu/(h·ft)
+    assert "2.29 W/m (2.38 Btu/(h·ft))" in error_words(caught.value)
 
 
 def test_target_thickness_with_computed_coefficient() -> None:
@@ -257,6 +277,45 @@ def test_physics_rejects_bad_input(build, parameter: str) -> None:
     with pytest.raises(ValueError) as caught:
         build()
     assert caught.value.parameter == parameter
+
+
+@pytest.mark.parametrize(
+    ("build", "words"),
+    [
+        # 8784 h = 366 days x 24 h
+        (lambda: annual_heat_loss(77.0, 9000), "must be at most 8784 hours"),
+        (lambda: annual_heat_loss(math.nan, 10), "the heat loss must be a finite number"),
+        (lambda: PipeLayer(math.nan, 0.04), "must be a finite number (not NaN or infinity)"),
+        (lambda: PipeLayer(-1.0, 0.04), "must be greater than zero"),
+        # 1e-5 m = 0.01 mm = 0.01 / 25.4 in = 0.000394 in
+        (lambda: PipeLayer(1e-6, 0.04), "must be at least 0.01 mm (0.000394 in)"),
+        # 1000 °C = 1000 x 9/5 + 32 = 1832 °F
+        (
+            lambda: PipeRun(0.022, (), -300, 15),
+            "must be above absolute zero (-273.15 °C, -459.67 °F) and at most 1000 °C (1832 °F)",
+        ),
+        (
+            lambda: PipeRun(0.022, (), 55, 15, emissivity=2.0),
+            "must be greater than 0 and at most 1",
+        ),
+        # 1e6 m / 0.3048 m/ft = 3.28084e6 ft
+        (
+            lambda: PipeRun(0.022, (), 55, 15, length_m=2e6),
+            "must be at most 1e+06 m (3.28084e+06 ft)",
+        ),
+    ],
+)
+def test_input_errors_are_worded_in_both_unit_systems(build, words: str) -> None:
+    with pytest.raises(PipeInputError) as caught:
+        build()
+    assert error_words(caught.value) == words
+
+
+def test_rayleigh_caution_words() -> None:
+    # The Churchill–Chu correlation is fitted up to Ra = 1e12 (Bergman et al. eq. 9.34).
+    result = pipe_heat_loss(_run(22, [(19, 0.035)], 55, 15, h=9.0))
+    words = caution_words(PipeCaution(CautionKind.HIGH_RAYLEIGH, 3.4e12), result)
+    assert words.startswith("The Rayleigh number 3.4e+12 is above 1e12")
 
 
 @QUICK

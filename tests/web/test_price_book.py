@@ -97,17 +97,17 @@ def test_apply_price_item_fills_cost_and_refuses_unsuitable_items() -> None:
     doc = {"surface": "attic", "assembly": {"layers": []}, "cost": {"fixed": 1, "per_area": 9},
            "rebate": 300}  # fmt: skip
     metric = Item(slug="loose-fill", units="si", unit_cost=10.0, fixed_cost=200.0)
-    out = book.apply_price_item(doc, metric, units="ip")
+    out = book.apply_price_item(doc, metric, kind="assembly", units="ip")
     # $10/m² = 10 × 0.09290304 = $0.9290304/ft²
     assert out["cost"] == {"fixed": 200.0, "per_area": pytest.approx(0.9290304)}
     assert out["rebate"] == 300 and out["price_item"] == "loose-fill"
     assert doc["cost"] == {"fixed": 1, "per_area": 9}  # the input is not changed
     sealing = {"cfm50_after": 2000, "cost": {"fixed": 900}}
     with pytest.raises(InputError, match="air sealing takes a price fixed price per job"):
-        book.apply_price_item(sealing, Item(name="Loose fill"), units="ip")
-    assert book.apply_price_item(sealing, Item(basis="fixed", fixed_cost=1200.0), units="si")[
-        "cost"
-    ] == {"fixed": 1200.0}
+        book.apply_price_item(sealing, Item(name="Loose fill"), kind="air_sealing", units="ip")
+    fixed = Item(basis="fixed", fixed_cost=1200.0)
+    out = book.apply_price_item(sealing, fixed, kind="air_sealing", units="si")
+    assert out["cost"] == {"fixed": 1200.0}
 
 
 # --- pages ----------------------------------------------------------------------------------------

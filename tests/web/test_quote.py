@@ -121,7 +121,7 @@ def test_pipe_insulation_quote_priced_per_length(app, client: TestClient) -> Non
         item = book.add_item(session=s, organization_id=house.organization_id, name="Sleeves",  # type: ignore[union-attr]
                              upgrade_type="pipe_insulation", basis="per_length", units="si",
                              unit_cost=10.0, fixed_cost=40.0)  # fmt: skip
-        up.document = book.apply_price_item(up.document, item, units="ip")
+        up.document = book.apply_price_item(up.document, item, kind=up.kind, units="ip")
         package = ups.add_package(session=s, house=house, name="Pipes only",  # type: ignore[arg-type]
                                   upgrade_slugs=[up.slug], expected_version=None)  # fmt: skip
         s.commit()

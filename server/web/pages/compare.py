@@ -55,7 +55,7 @@ def build_compare_context(*, house: House, catalog: Catalog, chosen: list[str]) 
         if p.cash_flow
     ]
     kinds = sorted({s.kind for s in house.surfaces})
-    topics = ("air_sealing",) if any(u.document.get("cfm50_after") for u in house.upgrades) else ()
+    topics = ("air_sealing",) if any(u.kind == "air_sealing" for u in house.upgrades) else ()
     return {
         "house": house,
         "result": result,

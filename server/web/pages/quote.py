@@ -13,8 +13,9 @@ from typing import Any
 
 from sqlalchemy.orm import Session
 
+from server.documents.house import HouseDocument, HouseResult
 from server.errors import InputError
-from server.models import House, Organization
+from server.models import House, Organization, PriceBookItem
 from server.services import houses as svc
 from server.services import price_book as book
 from server.services.cautions import GENERAL, cautions_for
@@ -57,7 +58,8 @@ def _price_words(row_document: dict, items: dict, units: str) -> tuple[str, bool
     return "Priced as entered on the upgrade: " + " + ".join(parts), False
 
 
-def _scope_line(slug, doc, house, result, items) -> dict[str, Any]:  # type: ignore[no-untyped-def]
+def _scope_line(slug: str, doc: HouseDocument, house: House, result: HouseResult,
+                items: dict[str, PriceBookItem]) -> dict[str, Any]:  # fmt: skip
     """One upgrade of the package: what is installed, how much of it, and its price."""
     up = next(u for u in doc.upgrades if u.id == slug)
     row = next(u for u in house.upgrades if u.slug == slug)

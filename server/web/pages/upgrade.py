@@ -19,6 +19,7 @@ from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
+from server.services.upgrades import PRICED_PER, edits_assembly
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, AssemblyForm, form_from_document
 
 
@@ -48,7 +49,7 @@ def upgrade_context(
             )
         except (InputError, ValueError):
             before = None
-    if upgrade.document.get("assembly") is not None:
+    if edits_assembly(upgrade):
         if form is None:
             form = form_from_document(upgrade.document["assembly"], units)
         if result is None and not form.has_errors:
@@ -58,7 +59,7 @@ def upgrade_context(
             except (InputError, ValueError):
                 result = None
     kinds = [surface.kind] if surface else []
-    topics = ("air_sealing",) if upgrade.document.get("cfm50_after") else ()
+    topics = ("air_sealing",) if upgrade.kind == "air_sealing" else ()
     return {
         "house": house, "upgrade": upgrade, "surface": surface, "before": before, "form": form,
         "result": result, "message": message, "errors": errors or {}, "units": house.units,
@@ -69,4 +70,5 @@ def upgrade_context(
         "cautions": cautions_for(kinds, extra_topics=topics),
         "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=organization_id)) if surface else None,
         "price_items": list_items(session=session, organization_id=organization_id),
+        "priced_per": PRICED_PER.get(upgrade.kind),  # area | length | None (fixed only)
     }  # fmt: skip

@@ -189,12 +189,14 @@ def _admin_page(request: Request, session: Session, admin: User, *, status_code:
 
 
 @router.get("/admin/users", name="admin_users")
-def admin_users_page(request: Request, session: SessionDep, admin: AdminUser, done: str = ""):  # type: ignore[no-untyped-def]
+def admin_users_page(
+    request: Request, session: SessionDep, admin: AdminUser, done: str = ""
+) -> Response:
     return _admin_page(request, session, admin, message=DONE.get(done, ""))
 
 
 @router.post("/admin/users")
-def add_user(  # type: ignore[no-untyped-def]
+def add_user(
     request: Request,
     session: SessionDep,
     admin: AdminUser,
@@ -202,7 +204,7 @@ def add_user(  # type: ignore[no-untyped-def]
     name: str = Form(""),
     role: str = Form("staff"),
     password: str = Form(""),
-):
+) -> Response:
     temporary = password or accounts.generate_password()
     try:
         user = accounts.create_user(session=session, organization_id=admin.organization_id,
@@ -218,9 +220,9 @@ def add_user(  # type: ignore[no-untyped-def]
 
 
 @router.post("/admin/users/{user_id}/password")
-def reset_password(  # type: ignore[no-untyped-def]
+def reset_password(
     request: Request, session: SessionDep, admin: AdminUser, user_id: int, password: str = Form("")
-):
+) -> Response:
     temporary = password or accounts.generate_password()
     try:
         user = accounts.reset_password_by_admin(
@@ -236,9 +238,9 @@ def reset_password(  # type: ignore[no-untyped-def]
 
 
 @router.post("/admin/users/{user_id}/active")
-def set_active(  # type: ignore[no-untyped-def]
+def set_active(
     request: Request, session: SessionDep, admin: AdminUser, user_id: int, active: str = Form("")
-):
+) -> Response:
     wanted = active == "1"
     try:
         accounts.set_active(session=session, admin=admin, user_id=user_id, active=wanted)

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
 from server.services.firm_code_targets import reset_row, save_row
@@ -16,13 +16,15 @@ router = APIRouter()
 
 
 @router.get("/code-targets", name="code_targets")
-def code_targets_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
+def code_targets_page(request: Request, session: SessionDep, org: OrgDep) -> HTMLResponse:
     context = code_targets_context(session=session, organization_id=org.id)
     return render(request, "pages/code_targets.html", context)
 
 
 @router.post("/code-targets")
-def save_code_target(request: Request, session: SessionDep, org: OrgDep, data: PostedFields):  # type: ignore[no-untyped-def]
+def save_code_target(
+    request: Request, session: SessionDep, org: OrgDep, data: PostedFields
+) -> Response:
     errors: dict[str, str] = {}
     try:
         zone = read_integer(data.get("climate_zone", ""))

@@ -55,7 +55,7 @@ def save_section(
     data: PostedFields,
     house_id: int,
     section: str,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if section not in SECTIONS:
         raise svc.NotFound
@@ -92,7 +92,9 @@ def save_section(
     return _respond(request, session, org, house, ctx, 200)
 
 
-def _with_balance_point(house, doc: dict, data: dict[str, str], errors: dict[str, str]):  # type: ignore[no-untyped-def]
+def _with_balance_point(
+    house: House, doc: dict[str, Any], data: dict[str, str], errors: dict[str, str]
+) -> tuple[dict[str, Any] | None, dict[str, str]]:
     """Add variable_base when set-point and gains are typed and a weather table exists."""
     setpoint, gains = data.get("setpoint", "").strip(), data.get("internal_gains", "").strip()
     if not setpoint and not gains:
@@ -125,7 +127,7 @@ def upload_weather(
     form: PostedForm,
     house_id: int,
     file: UploadFile,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     """Read a weather file (EPW, TMY3 or CSV) into the house's climate (a sync route: the
     upload is already spooled by the time it runs, so ``file.file`` is read directly)."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Form, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
 from server.services import houses as svc
@@ -23,7 +23,7 @@ def home() -> RedirectResponse:
 
 
 @router.get("/houses", name="houses")
-def houses_page(request: Request, session: SessionDep, org: OrgDep, q: str = ""):  # type: ignore[no-untyped-def]
+def houses_page(request: Request, session: SessionDep, org: OrgDep, q: str = "") -> Response:
     context = houses_context(session=session, organization_id=org.id, query=q)
     return page_or_fragment(
         request, page="pages/houses.html", fragment="partials/house_list.html", context=context
@@ -31,7 +31,7 @@ def houses_page(request: Request, session: SessionDep, org: OrgDep, q: str = "")
 
 
 @router.post("/houses")
-def create_house(  # type: ignore[no-untyped-def]
+def create_house(
     request: Request,
     session: SessionDep,
     org: OrgDep,
@@ -40,7 +40,7 @@ def create_house(  # type: ignore[no-untyped-def]
     address: str = Form(""),
     units: str = Form("ip"),
     idempotency_key: str = Form(""),
-):
+) -> Response:
     def work() -> str:
         house = svc.create_house(
             session=session,
@@ -63,13 +63,13 @@ def create_house(  # type: ignore[no-untyped-def]
 
 
 @router.get("/houses/{house_id}", name="house")
-def house_page(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+def house_page(request: Request, session: SessionDep, org: OrgDep, house_id: int) -> HTMLResponse:
     context = house_context(session=session, organization_id=org.id, house_id=house_id)
     return render(request, "pages/house.html", context)
 
 
 @router.post("/houses/{house_id}/surfaces")
-def add_surface(  # type: ignore[no-untyped-def]
+def add_surface(
     request: Request,
     session: SessionDep,
     org: OrgDep,
@@ -81,7 +81,7 @@ def add_surface(  # type: ignore[no-untyped-def]
     typical: str = Form(""),
     version: str = Form(""),
     idempotency_key: str = Form(""),
-):
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
     area_value = parse_float(area, "area", errors, units=house.units)
@@ -109,14 +109,14 @@ def add_surface(  # type: ignore[no-untyped-def]
 
 
 @router.post("/houses/{house_id}/units")
-def switch_units(  # type: ignore[no-untyped-def]
+def switch_units(
     request: Request,
     session: SessionDep,
     org: OrgDep,
     house_id: int,
     units: str = Form(...),
     version: int | None = Form(None),
-):
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if units in ("ip", "si"):
         try:  # a stale tab is a conflict even when it asks for the units shown now

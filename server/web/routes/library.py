@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Form, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
 from server.physics.units import k_ip_to_si, r_ip_to_si
@@ -16,14 +16,14 @@ router = APIRouter()
 
 
 @router.get("/library", name="library")
-def library_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
+def library_page(request: Request, session: SessionDep, org: OrgDep) -> HTMLResponse:
     return render(
         request, "pages/library.html", library_context(session=session, organization_id=org.id)
     )
 
 
 @router.post("/library")
-def add_library_material(  # type: ignore[no-untyped-def]
+def add_library_material(
     request: Request,
     session: SessionDep,
     org: OrgDep,
@@ -33,7 +33,7 @@ def add_library_material(  # type: ignore[no-untyped-def]
     value: str = Form(""),
     units: str = Form("ip"),
     source: str = Form(""),
-):
+) -> Response:
     errors: dict[str, str] = {}
     number = parse_float(value, "value", errors, units=units)
     if not errors:

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import RedirectResponse, Response
 
 from server.errors import InputError
 from server.services import houses as svc
@@ -40,7 +40,7 @@ def parse_pipe_form(data: dict[str, str], units: str) -> tuple[dict, dict[str, s
 def add_pipe_run(
     request: Request, session: SessionDep, org: OrgDep, user: CurrentUser, data: PostedFields,
     house_id: int,
-):  # type: ignore[no-untyped-def]  # fmt: skip
+) -> Response:  # fmt: skip
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     values, errors = parse_pipe_form(data, house.units)
     if not errors:
@@ -80,7 +80,7 @@ def insulate_pipe(
     data: PostedFields,
     house_id: int,
     surface_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     surface = svc.get_surface(
         session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id

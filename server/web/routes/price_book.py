@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 from fastapi import APIRouter, Form, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
 from server.services import houses as svc
@@ -47,23 +47,24 @@ def _values(form: dict[str, str], errors: dict[str, str]) -> dict[str, Any]:
 
 
 @router.get("/price-book", name="price_book")
-def price_book_page(request: Request, session: SessionDep, org: OrgDep):  # type: ignore[no-untyped-def]
+def price_book_page(request: Request, session: SessionDep, org: OrgDep) -> HTMLResponse:
     context = price_book_context(session=session, organization_id=org.id)
     return render(request, "pages/price_book.html", context)
 
 
-def _form(name, upgrade_type, basis, units, unit_cost, fixed_cost, notes) -> dict[str, str]:  # type: ignore[no-untyped-def]
+def _form(name: str, upgrade_type: str, basis: str, units: str, unit_cost: str, fixed_cost: str,
+          notes: str) -> dict[str, str]:  # fmt: skip
     return dict(
         zip(FIELDS, (name, upgrade_type, basis, units, unit_cost, fixed_cost, notes), strict=True)
     )
 
 
 @router.post("/price-book")
-def add_item(  # type: ignore[no-untyped-def]
+def add_item(
     request: Request, session: SessionDep, org: OrgDep, name: str = Form(""),
     upgrade_type: str = Form(""), basis: str = Form(""), units: str = Form("ip"),
     unit_cost: str = Form(""), fixed_cost: str = Form(""), notes: str = Form(""),
-):  # fmt: skip
+) -> Response:  # fmt: skip
     form = _form(name, upgrade_type, basis, units, unit_cost, fixed_cost, notes)
     errors: dict[str, str] = {}
     values = _values(form, errors)
@@ -85,11 +86,11 @@ def add_examples(session: SessionDep, org: OrgDep) -> RedirectResponse:
 
 
 @router.post("/price-book/{item_id}")
-def update_item(  # type: ignore[no-untyped-def]
+def update_item(
     request: Request, session: SessionDep, org: OrgDep, item_id: int, name: str = Form(""),
     upgrade_type: str = Form(""), basis: str = Form(""), units: str = Form("ip"),
     unit_cost: str = Form(""), fixed_cost: str = Form(""), notes: str = Form(""),
-):  # fmt: skip
+) -> Response:  # fmt: skip
     book.get_item(session=session, organization_id=org.id, item_id=item_id)  # 404 first
     form = _form(name, upgrade_type, basis, units, unit_cost, fixed_cost, notes)
     errors: dict[str, str] = {}
@@ -112,10 +113,10 @@ def delete_item(session: SessionDep, org: OrgDep, item_id: int) -> RedirectRespo
 
 
 @router.post("/houses/{house_id}/upgrades/{upgrade_id}/price-item")
-def fill_from_price_book(  # type: ignore[no-untyped-def]
+def fill_from_price_book(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int,
     price_item: str = Form(""), version: str = Form(""), back: str = Form(""),
-):  # fmt: skip
+) -> Response:  # fmt: skip
     """Link an upgrade to a price-book item (its cost then follows the item) or unlink it."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = next((u for u in house.upgrades if u.id == upgrade_id), None)

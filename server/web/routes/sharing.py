@@ -45,14 +45,14 @@ def _respond(request: Request, session: Session, org: Organization, house: House
 
 
 @router.get("/houses/{house_id}/share-links", name="share_links")
-def share_links(request: Request, session: SessionDep, org: OrgDep, house_id: int):  # type: ignore[no-untyped-def]
+def share_links(request: Request, session: SessionDep, org: OrgDep, house_id: int) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     ctx = share_context(session=session, organization_id=org.id, house=house)
     return _respond(request, session, org, house, ctx)
 
 
 @router.post("/houses/{house_id}/share-links")
-def create_share_link(  # type: ignore[no-untyped-def]
+def create_share_link(
     request: Request,
     session: SessionDep,
     org: OrgDep,
@@ -61,7 +61,7 @@ def create_share_link(  # type: ignore[no-untyped-def]
     label: str = Form(""),
     days_valid: str = Form(str(sharing.DEFAULT_DAYS)),
     idempotency_key: str = Form(""),
-):
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     form = {"label": label, "days_valid": days_valid}
     errors: dict[str, str] = {}
@@ -103,9 +103,9 @@ def create_share_link(  # type: ignore[no-untyped-def]
 
 
 @router.post("/houses/{house_id}/share-links/{link_id}/revoke")
-def revoke_share_link(  # type: ignore[no-untyped-def]
+def revoke_share_link(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, link_id: int
-):
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     sharing.revoke(session=session, organization_id=org.id, link_id=link_id, house_id=house.id)
     if is_htmx(request):
@@ -124,9 +124,9 @@ def _not_found(request: Request) -> Response:
 
 
 @router.get("/s/{token}", name="shared_view")
-def shared_view(  # type: ignore[no-untyped-def]
+def shared_view(
     request: Request, session: SessionDep, token: str, pick: list[str] = Query(default=[])
-):
+) -> Response:
     link: ShareLink | None = sharing.resolve_token(session=session, token=token)
     if link is None:
         return _not_found(request)

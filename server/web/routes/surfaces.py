@@ -2,11 +2,17 @@
 
 from __future__ import annotations
 
-from fastapi import APIRouter, Request
-from fastapi.responses import RedirectResponse
+from typing import Any, cast
 
-from server.documents.assembly import AssemblyInput
+from fastapi import APIRouter, Request
+from fastapi.responses import HTMLResponse, RedirectResponse
+from sqlalchemy.orm import Session
+from starlette.responses import Response
+
+from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.common import Units
 from server.errors import InputError
+from server.models import House, Organization, Surface
 from server.services import houses as svc
 from server.services.assembly import evaluate_assembly
 from server.services.library import catalog_for
@@ -22,7 +28,9 @@ from server.web.render import is_htmx, page_or_fragment
 router = APIRouter()
 
 
-def _load(session, org, house_id: int, surface_id: int):  # type: ignore[no-untyped-def]
+def _load(
+    session: Session, org: Organization, house_id: int, surface_id: int
+) -> tuple[House, Surface]:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     surface = svc.get_surface(
         session=session, organization_id=org.id, house_id=house_id, surface_id=surface_id
@@ -33,14 +41,14 @@ def _load(session, org, house_id: int, surface_id: int):  # type: ignore[no-unty
 @router.get("/houses/{house_id}/surfaces/{surface_id}", name="surface")
 def surface_page(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, surface_id: int
-):  # type: ignore[no-untyped-def]
+) -> HTMLResponse:
     house, surface = _load(session, org, house_id, surface_id)
     if surface.kind == "pipe_run":
         return render(
             request, "pages/pipe_run.html", pipe_run_context(house=house, surface=surface)
         )
     catalog = catalog_for(session=session, organization_id=org.id)
-    form = form_from_document(surface.assembly, house.units)
+    form = form_from_document(surface.assembly, cast(Units, house.units))
     result = saved_result(house=house, surface=surface, catalog=catalog)
     context = surface_context(session=session, organization_id=org.id, house=house, surface=surface,
                               form=form, result=result, catalog=catalog)  # fmt: skip
@@ -55,15 +63,15 @@ def save_assembly(
     data: PostedFields,
     house_id: int,
     surface_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house, surface = _load(session, org, house_id, surface_id)
     catalog = catalog_for(session=session, organization_id=org.id)
 
-    def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
+    def save(doc: dict[str, Any], version: int | None) -> AssemblyResult:
         return svc.save_assembly(session=session, house=house, surface=surface, assembly=doc,
                                  catalog=catalog, expected_version=version)  # fmt: skip
 
-    form, result, message, status = run_editor(data, units=house.units, save=save)
+    form, result, message, status = run_editor(data, units=cast(Units, house.units), save=save)
     if not is_htmx(request) and status == 200:
         return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
     ctx = surface_context(session=session, organization_id=org.id, house=house, surface=surface,
@@ -81,7 +89,7 @@ def update_surface(
     data: PostedFields,
     house_id: int,
     surface_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house, surface = _load(session, org, house_id, surface_id)
     errors: dict[str, str] = {}
     try:
@@ -110,11 +118,17 @@ def update_surface(
             errors[exc.field] = exc.message
         except svc.Conflict:
             errors["form"] = stale_form()
+    if errors and surface.kind == "pipe_run":  # no layers to show: the pipe run's own page
+        ctx = pipe_run_context(house=house, surface=surface,
+                               insulate_errors={"form": " ".join(errors.values())})  # fmt: skip
+        return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))
     if errors:
         catalog = catalog_for(session=session, organization_id=org.id)
-        form = form_from_document(surface.assembly, house.units)
+        form = form_from_document(surface.assembly, cast(Units, house.units))
         result = evaluate_assembly(
-            AssemblyInput.model_validate(surface.assembly), units=house.units, catalog=catalog
+            AssemblyInput.model_validate(surface.assembly),
+            units=cast(Units, house.units),  # the column holds only 'ip' or 'si'
+            catalog=catalog,
         )
         ctx = surface_context(session=session, organization_id=org.id, house=house, surface=surface,
                               form=form, result=result, catalog=catalog)  # fmt: skip

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from fastapi import APIRouter, Request
+from fastapi.responses import HTMLResponse, Response
 from pydantic import ValidationError
 
 from server.documents.pipe import PipeRequest
@@ -67,7 +68,7 @@ def _pipe_request(form: dict[str, str], errors: dict[str, str]) -> PipeRequest |
 
 
 @router.get("/tools/pipe", name="pipe_tool")
-def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-def]
+def pipe_page(request: Request, units: str = "ip") -> HTMLResponse:
     form = dict(PIPE_DEFAULTS["si" if units == "si" else "ip"])
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
@@ -78,7 +79,7 @@ def pipe_page(request: Request, units: str = "ip"):  # type: ignore[no-untyped-d
 
 
 @router.post("/tools/pipe")
-def pipe_compute(request: Request, form: PostedFields):  # type: ignore[no-untyped-def]
+def pipe_compute(request: Request, form: PostedFields) -> Response:
     errors: dict[str, str] = {}
     req = _pipe_request(form, errors)
     result = None

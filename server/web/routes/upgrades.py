@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import cast
+from typing import Any, cast
 
 from fastapi import APIRouter, Request
-from fastapi.responses import RedirectResponse
+from fastapi.responses import HTMLResponse, RedirectResponse
+from starlette.responses import Response
 
+from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
 from server.errors import InputError
 from server.services import houses as svc
@@ -42,7 +44,7 @@ def _number(
 def add_upgrade(
     request: Request, session: SessionDep, org: OrgDep, user: CurrentUser, data: PostedFields,
     house_id: int,
-):  # type: ignore[no-untyped-def]  # fmt: skip
+) -> Response:  # fmt: skip
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
 
@@ -98,7 +100,7 @@ def add_upgrade(
 @router.get("/houses/{house_id}/upgrades/{upgrade_id}", name="upgrade")
 def upgrade_page(
     request: Request, session: SessionDep, org: OrgDep, house_id: int, upgrade_id: int
-):  # type: ignore[no-untyped-def]
+) -> HTMLResponse:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
     context = upgrade_context(session=session, organization_id=org.id, house=house, upgrade=upgrade)
@@ -113,7 +115,7 @@ def update_upgrade(
     data: PostedFields,
     house_id: int,
     upgrade_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
     errors: dict[str, str] = {}
@@ -150,14 +152,14 @@ def save_upgrade_assembly(
     data: PostedFields,
     house_id: int,
     upgrade_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     upgrade = upg.get_upgrade(house, upgrade_id)
-    if upgrade.document.get("assembly") is None:
+    if not upg.edits_assembly(upgrade):
         raise svc.NotFound
     catalog = catalog_for(session=session, organization_id=org.id)
 
-    def save(doc: dict, version: int | None):  # type: ignore[no-untyped-def]
+    def save(doc: dict[str, Any], version: int | None) -> AssemblyResult:
         return upg.save_upgrade_assembly(session=session, house=house, upgrade=upgrade, assembly=doc,
                                          catalog=catalog, expected_version=version)  # fmt: skip
 
@@ -188,7 +190,7 @@ def add_package(
     form: PostedForm,
     data: PostedFields,
     house_id: int,
-):  # type: ignore[no-untyped-def]
+) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
     status = 422
