@@ -84,6 +84,7 @@
     var st = stateOf(form);
     st.inFlight = true;
     st.sent = snapshot(form);
+    say(form, "Saving…");  // never leave an earlier answer's "Saved." over an edit not yet stored
   });
   var focusKept = null;
   document.addEventListener("htmx:beforeSwap", function (evt) {
