@@ -15,23 +15,14 @@ from fastapi.testclient import TestClient
 
 from server.app import create_app
 from server.config import Settings
+from tests.utils.examples import API_GROUND_SI
 
 client = TestClient(create_app(Settings(environment="test", database_url="sqlite://")))
 URL = "/api/v1/calc/ground"
 Q = pint.UnitRegistry().Quantity
 
 #: API.md's example request
-EXAMPLE: dict[str, Any] = {
-    "units": "si",
-    "type": "heated_basement",
-    "floor_area": 120.0,
-    "exposed_perimeter": 46.0,
-    "wall_thickness": 300,
-    "soil_conductivity": 2.0,
-    "floor_r": 0.5,
-    "depth": 2.0,
-    "wall_r": 0.2,
-}
+EXAMPLE: dict[str, Any] = API_GROUND_SI
 SLAB: dict[str, Any] = {
     "units": "si",
     "type": "slab",

@@ -32,7 +32,7 @@ from server.app import create_app
 from server.cli import migrate
 from server.config import Settings
 from tests.utils.auth import signed_in_headers
-from tests.utils.examples import API_WALL_IP
+from tests.utils.examples import API_GROUND_SI, API_WALL_IP
 
 MAX_EXAMPLES = 30
 CHECKS = [
@@ -172,17 +172,7 @@ HOUSE_IP = {  # ../shared/API.md, POST /api/v1/calc/house (its layers filled in)
         "loan": {"apr": 0.06, "years": 10},
     },
 }
-GROUND_SI = {  # ../shared/API.md, POST /api/v1/calc/ground
-    "units": "si",
-    "type": "heated_basement",
-    "floor_area": 120.0,
-    "exposed_perimeter": 46.0,
-    "wall_thickness": 300,
-    "soil_conductivity": 2.0,
-    "floor_r": 0.5,
-    "depth": 2.0,
-    "wall_r": 0.2,
-}
+GROUND_SI = API_GROUND_SI  # ../shared/API.md, POST /api/v1/calc/ground
 BILLS_IP = {  # ../shared/API.md, POST /api/v1/calc/bills (three months of reads)
     "units": "ip",
     "fuel": "natural_gas",

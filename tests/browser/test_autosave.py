@@ -61,6 +61,21 @@ def _span_ms(request) -> tuple[float, float]:  # type: ignore[no-untyped-def]
     return t["startTime"], t["startTime"] + t["responseEnd"]
 
 
+def _hold_first_save(page) -> list:  # type: ignore[no-untyped-def]
+    """Hold the first autosave request (let the rest through); the list receives its route,
+    to be released with ``held[0].continue_()``."""
+    held: list = []
+
+    def hold_first(route) -> None:  # type: ignore[no-untyped-def]
+        if not held:
+            held.append(route)
+        else:
+            route.continue_()
+
+    page.route("**/assembly", hold_first)
+    return held
+
+
 def _wait_held(page, held: list) -> None:  # type: ignore[no-untyped-def]
     """Wait until the route handler has caught the held save: Playwright's sync API runs route
     handlers only while it is inside a call, so poll the condition (5 s at most)."""
@@ -119,15 +134,7 @@ def test_answer_between_keystrokes_keeps_40(browser, live_server: str, signed_in
     the old value and the keystrokes."""
     page = _new_rim_surface(browser, live_server, signed_in)
     posts = _assembly_posts(page)
-    held: list = []
-
-    def hold_first(route) -> None:  # type: ignore[no-untyped-def]
-        if not held:
-            held.append(route)
-        else:
-            route.continue_()
-
-    page.route("**/assembly", hold_first)
+    held = _hold_first_save(page)
     name, r = page.locator("#l0-name"), page.locator("#l0-r")
     name.fill("siding, painted")
     r.click()  # the name's change: first save, held
@@ -171,15 +178,7 @@ def test_tab_into_field_then_answer_then_type(browser, live_server: str, signed_
     selection, so typing replaces the value instead of adding to it."""
     page = _new_rim_surface(browser, live_server, signed_in)
     posts = _assembly_posts(page)
-    held: list = []
-
-    def hold_first(route) -> None:  # type: ignore[no-untyped-def]
-        if not held:
-            held.append(route)
-        else:
-            route.continue_()
-
-    page.route("**/assembly", hold_first)
+    held = _hold_first_save(page)
     page.locator("#l1-name").fill("plank sheathing")
     page.locator("#l1-name").press("Tab")  # to "Given as": the name's change goes out, held
     page.keyboard.press("Tab")  # to R, its text all selected
@@ -208,15 +207,7 @@ def test_change_right_after_a_swap_is_sent(browser, live_server: str, signed_in)
     and saved, not dropped while "Saved." shows."""
     page = _new_rim_surface(browser, live_server, signed_in)
     posts = _assembly_posts(page)
-    held: list = []
-
-    def hold_first(route) -> None:  # type: ignore[no-untyped-def]
-        if not held:
-            held.append(route)
-        else:
-            route.continue_()
-
-    page.route("**/assembly", hold_first)
+    held = _hold_first_save(page)
     page.locator("#l1-name").fill("plank sheathing")
     page.locator("#l1-name").press("Tab")  # the name's change goes out, held
     _wait_held(page, held)
@@ -242,15 +233,7 @@ def test_edits_during_a_save_go_in_one_follow_up(browser, live_server: str, sign
     page = _new_rim_surface(browser, live_server, signed_in)
     posts = _assembly_posts(page)
     _add_latency(page, 400)
-    held: list = []
-
-    def hold_first(route) -> None:  # type: ignore[no-untyped-def]
-        if not held:
-            held.append(route)
-        else:
-            route.continue_()
-
-    page.route("**/assembly", hold_first)
+    held = _hold_first_save(page)
     page.locator("#l1-r").fill("2")
     page.locator("#l1-r").press("Tab")  # first save in flight
     page.select_option("#films", "iso6946")  # change 2, in flight

@@ -24,3 +24,17 @@ API_WALL_IP: dict[str, Any] = {
         {"name": "drywall", "thickness": 0.5, "conductivity": 1.11},
     ],
 }
+
+#: The worked example of ../shared/API.md, POST /api/v1/calc/ground: a heated basement
+#: (take a copy before changing it).
+API_GROUND_SI: dict[str, Any] = {
+    "units": "si",
+    "type": "heated_basement",
+    "floor_area": 120.0,
+    "exposed_perimeter": 46.0,
+    "wall_thickness": 300,
+    "soil_conductivity": 2.0,
+    "floor_r": 0.5,
+    "depth": 2.0,
+    "wall_r": 0.2,
+}
