@@ -15,6 +15,16 @@ from server.web.pages.settings import settings_context
 from server.web.pages.sharing import share_context
 
 
+#: the House page's sections in the order an auditor walks through them (anchor key, label)
+HOUSE_SECTIONS: tuple[tuple[str, str], ...] = (
+    ("house", "House & systems"),
+    ("envelope", "Envelope"),
+    ("bills", "Bills"),
+    ("upgrades", "Upgrades"),
+    ("share", "Share"),
+)
+
+
 def houses_context(
     *,
     session: Session,
@@ -45,6 +55,8 @@ def house_context(*, session: Session, organization_id: int, house_id: int) -> d
         "pipes": svc.pipe_rows(house),
         "kinds": svc.SURFACE_KINDS,
         "typicals": typical_assemblies(),
+        "house_sections": HOUSE_SECTIONS,
+        "todo": {},
         "form": {},
         "errors": {},
     }
