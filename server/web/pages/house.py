@@ -14,7 +14,6 @@ from server.services.typical import typical_assemblies
 from server.web.pages.settings import settings_context
 from server.web.pages.sharing import share_context
 
-
 #: the House page's sections in the order an auditor walks through them (anchor key, label)
 HOUSE_SECTIONS: tuple[tuple[str, str], ...] = (
     ("house", "House & systems"),
