@@ -64,6 +64,7 @@ bench: $(STAMP)
 	  || echo "wrk is not installed: the load comes from the slower Python client"
 	$(BIN)/python scripts/bench_load.py
 	$(BIN)/python scripts/bench_weather.py
+	$(BIN)/python scripts/bench_bills.py
 
 clean:
 	rm -rf $(VENV) var .pytest_cache .hypothesis

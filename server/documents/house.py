@@ -319,6 +319,7 @@ class ExposedPartIn(Strict):
     u: UValue = Field(description="U-factor of the part, films included")
 
 
+SpaceKind = Literal["vented_attic", "crawlspace", "unheated_basement", "garage", "other"]
 SpaceFraction = Annotated[float, Field(ge=0, le=1, allow_inf_nan=False)]
 
 
@@ -332,6 +333,9 @@ class SpaceIn(Strict):
 
     id: Ident
     label: Name = ""
+    kind: SpaceKind | None = Field(
+        default=None, description="what the space is (for people; the calculation ignores it)"
+    )
     exposed: list[ExposedPartIn] | None = Field(default=None, max_length=50)
     volume: Annotated[float, Field(gt=0, le=1e9, allow_inf_nan=False)] | None = Field(
         default=None, description="air volume of the space, ft³ or m³"
@@ -691,6 +695,18 @@ class UncertaintyIn(Strict):
     )
 
 
+class DetailIn(Strict):
+    """How much of each option the calc/house response carries (the figures are the same)."""
+
+    upgrades_alone: Literal["summary", "full"] = Field(
+        default="summary",
+        description="summary (default): each upgrade alone with id, name, upgrades, "
+        "annual_savings, net_cost, simple_payback_years, npv, sir, co2_avoided and warnings "
+        "(and calibrated with bills); full: every field, as a package has (its surface rows, "
+        "ua_by_surface, cash_flow, steps, ...). as_found and packages always carry every field",
+    )
+
+
 class HouseDocument(Strict):
     """The whole comparison as one document."""
 
@@ -742,6 +758,10 @@ class HouseDocument(Strict):
         default=None,
         description="savings ranges by a seeded Monte Carlo: each package then has range, and "
         "the result uncertainty",
+    )
+    detail: DetailIn = Field(
+        default_factory=DetailIn,
+        description="what the response carries of each upgrade alone (see DetailIn)",
     )
 
 

@@ -190,6 +190,34 @@ def space_factors(space: BufferSpace, h_iu_w_per_k: float) -> SpaceFactors:
     return SpaceFactors(space.id, adjustment_factor(h_iu_w_per_k, h_ue), h_iu_w_per_k, h_ue, False)
 
 
+def space_temperature(b: float, indoor_c: float, outdoor_c: float) -> float:
+    """Steady-state temperature of a buffer space [°C] from its b [1].
+
+    b is defined by the temperatures it stands for, ``b = (θ_i − θ_u) / (θ_i − θ_e)``, so
+    ``θ_u = θ_i − b · (θ_i − θ_e)``.
+
+    Parameters
+    ----------
+    b : float
+        Adjustment factor of the space [-], 0..1.
+    indoor_c, outdoor_c : float
+        Indoor and outdoor temperatures [°C].
+
+    Returns
+    -------
+    float
+        θ_u [°C].
+
+    Examples
+    --------
+    >>> space_temperature(0.5, 20.0, 0.0)
+    10.0
+    """
+    if not (0.0 <= b <= 1.0):
+        raise ValueError("b must be between 0 and 1")
+    return indoor_c - b * (indoor_c - outdoor_c)
+
+
 def buffered_conductances(
     ua_by_surface: Mapping[str, float],
     adjacent: Mapping[str, str],

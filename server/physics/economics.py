@@ -22,6 +22,7 @@ References
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 
@@ -67,6 +68,15 @@ def _yearly_factors(
     return factors
 
 
+def yearly_factors(
+    discount_rate: float, escalation_rate: float, years: int
+) -> tuple[tuple[float, float], ...]:
+    """``((1 + e)^t, (1 + d)^-t)`` for t = 1..N [1, ch. 4], computed once per house and passed
+    to :func:`appraise` (``factors=``) for each of its options: the same figures, without
+    recomputing 2·N powers per option. Raises ``ValueError`` as :func:`appraise` does."""
+    return tuple(_yearly_factors(discount_rate, escalation_rate, years))
+
+
 def simple_payback_years(net_cost: float, annual_savings: float) -> float | None:
     """Simple payback [years] = net cost / annual savings at today's prices [1, ch. 6].
 
@@ -91,7 +101,11 @@ def simple_payback_years(net_cost: float, annual_savings: float) -> float | None
 
 
 def present_value_of_savings(
-    annual_savings: float, discount_rate: float, escalation_rate: float, years: int
+    annual_savings: float,
+    discount_rate: float,
+    escalation_rate: float,
+    years: int,
+    factors: Sequence[tuple[float, float]] | None = None,
 ) -> float:
     """Present value of escalating annual savings [money] [1, ch. 4].
 
@@ -111,10 +125,9 @@ def present_value_of_savings(
         Study period ``N`` [years], 1..100.
     """
     _finite(annual_savings, "the annual savings")
-    return sum(
-        annual_savings * escalation * discount
-        for escalation, discount in _yearly_factors(discount_rate, escalation_rate, years)
-    )
+    if factors is None:
+        factors = _yearly_factors(discount_rate, escalation_rate, years)
+    return sum(annual_savings * escalation * discount for escalation, discount in factors)
 
 
 def net_present_value(
@@ -208,6 +221,7 @@ def cash_flow(
     discount_rate: float,
     escalation_rate: float,
     years: int,
+    factors: Sequence[tuple[float, float]] | None = None,
 ) -> CashFlow:
     """Cumulative cash flow by year, undiscounted and discounted [1, ch. 6].
 
@@ -219,7 +233,9 @@ def cash_flow(
     _finite(net_cost, "the net cost")
     _finite(annual_savings, "the annual savings")
     plain, discounted = [-net_cost], [-net_cost]
-    for escalation, discount in _yearly_factors(discount_rate, escalation_rate, years):
+    if factors is None:
+        factors = _yearly_factors(discount_rate, escalation_rate, years)
+    for escalation, discount in factors:
         saved = annual_savings * escalation
         plain.append(plain[-1] + saved)
         discounted.append(discounted[-1] + saved * discount)
@@ -279,6 +295,7 @@ def appraise(
     years: int,
     loan_apr: float | None = None,
     loan_months: int | None = None,
+    factors: Sequence[tuple[float, float]] | None = None,
 ) -> Appraisal:
     """All the money figures of one option from its cost, rebates and annual savings (at today's prices) [1].
 
@@ -287,8 +304,12 @@ def appraise(
     savings ``s / 12``; payback years are the crossings of the two cumulative series.
     """
     net = _finite(installed_cost, "the installed cost") - _finite(rebates, "the rebates")
-    flow = cash_flow(net, annual_savings, discount_rate, escalation_rate, years)
-    present = present_value_of_savings(annual_savings, discount_rate, escalation_rate, years)
+    if factors is None:
+        factors = _yearly_factors(discount_rate, escalation_rate, years)
+    flow = cash_flow(net, annual_savings, discount_rate, escalation_rate, years, factors)
+    present = present_value_of_savings(
+        annual_savings, discount_rate, escalation_rate, years, factors
+    )
     payment = None
     if loan_apr is not None and loan_months is not None:
         payment = monthly_loan_payment(net, loan_apr, loan_months)

@@ -100,9 +100,10 @@ def convert_upgrade(document: dict[str, Any], src: Units, dst: Units) -> dict[st
         out["pipe_layers"] = [convert_pipe_layer(layer, src, dst) for layer in out["pipe_layers"]]
     if out.get("cost"):
         out["cost"] = convert_cost(out["cost"], src, dst)
+    from server.services.convert_envelope import upgrade_envelope_fields
     from server.services.convert_systems import upgrade_fields
 
-    return upgrade_fields(out, src, dst)
+    return upgrade_envelope_fields(upgrade_fields(out, src, dst), src, dst)
 
 
 def _degree_day_row(row: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:

@@ -14,6 +14,8 @@ from server.physics.energy import CFM_M3_PER_S
 from server.physics.units import from_si, temp_from_c, temp_to_c, to_si
 
 LITRE_PER_S_M3 = 1e-3
+#: ../shared/API.md's default indoor design temperature per unit system (°F, °C)
+DEFAULT_INDOOR = {"ip": 70.0, "si": 21.0}
 
 
 def _value(value: Any, quantity: str, src: Units, dst: Units) -> Any:
@@ -38,6 +40,9 @@ def _flow(value: Any, src: Units, dst: Units) -> Any:
 def climate_fields(climate: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:
     """Design, season and bin temperatures and the elevation of a stored climate."""
     out = dict(climate)
+    if out.get("indoor_design_temperature") is None and src != dst:
+        # the default differs by unit system (70 °F vs 21 °C): keep the one the figures used
+        out["indoor_design_temperature"] = DEFAULT_INDOOR[src]
     for key in (
         "heating_design_temperature",
         "indoor_design_temperature",

@@ -10,6 +10,13 @@ from sqlalchemy import select
 from sqlalchemy.orm import Session
 
 from server.models import House, Package, Surface, Upgrade
+from server.services.demo_parts import (
+    add_demo_envelope,
+    add_demo_systems,
+    add_demo_weather,
+    demo_bills,
+)
+from server.services.house_bills import save_bills
 from server.services.houses import add_surface, create_house, default_organization
 from server.services.typical import typical_assemblies
 
@@ -25,7 +32,7 @@ DEMO_SURFACES = [
 ]
 
 #: the demo upgrades that are not a new assembly for a surface (``upgrades.kind``)
-DEMO_UPGRADE_KINDS = {"air-seal": "air_sealing"}
+DEMO_UPGRADE_KINDS = {"air-seal": "air_sealing", "duct-seal": "duct_sealing", "north-storms": "window"}
 
 
 def load_demo_house(*, session: Session) -> int:
@@ -63,6 +70,9 @@ def load_demo_house(*, session: Session) -> int:
             session=session, house=house, name=name, kind="", area=area, typical=typical
         )
         surfaces[typical] = surface
+    add_demo_envelope(session=session, house=house, surfaces=surfaces)
+    add_demo_systems(house)
+    add_demo_weather(house)
     by_slug = {s.slug: s.id for s in surfaces.values()}
     for i, (slug, name, document) in enumerate(_demo_upgrades(surfaces)):
         kind = DEMO_UPGRADE_KINDS.get(slug, "assembly")
@@ -75,6 +85,8 @@ def load_demo_house(*, session: Session) -> int:
                         upgrade_slugs=["attic-r49", "air-seal"]))  # fmt: skip
     session.add(Package(house=house, position=1, slug="whole-house", name="Whole envelope",
                         upgrade_slugs=["attic-r49", "air-seal", "walls-dense-pack", "floor-r30", "rim-foam"]))  # fmt: skip
+    session.flush()
+    save_bills(session=session, house=house, bills=demo_bills(), expected_version=None)
     session.flush()
     return house.id
 
@@ -135,6 +147,36 @@ def _demo_upgrades(surfaces: Mapping[str, Surface]) -> list[tuple[str, str, dict
                 "rebate": 0,
                 "life_years": 30,
             },
+        ),
+        (
+            "north-storms",
+            "North windows: low-e interior storm panels",
+            {
+                "surface": surfaces["window-N"].slug,
+                "u": 0.33,
+                "shgc": 0.45,
+                "cost": {"fixed": 120, "per_area": 14.0},
+                "rebate": 0,
+                "life_years": 20,
+            },
+        ),
+        (
+            "slab-edge",
+            "Slab edge: 2 in rigid foam, 2 ft down",
+            {
+                "surface": surfaces["slab"].slug,
+                "ground": {"edge_insulation": {"orientation": "vertical", "width_or_depth": 2.0,
+                                               "r": 10.0, "thickness": 2.0}},  # fmt: skip
+                "cost": {"fixed": 650, "per_area": 0.0},
+                "rebate": 0,
+                "life_years": 30,
+            },
+        ),
+        (
+            "duct-seal",
+            "Seal the crawlspace ducts",
+            {"supply_leakage_after": 0.04, "return_leakage_after": 0.03, "cost": {"fixed": 600},
+             "rebate": 100, "life_years": 20},  # fmt: skip
         ),
     ]
 

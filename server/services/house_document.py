@@ -20,8 +20,16 @@ DEFAULT_CLIMATE = {"hdd": 5000.0, "cdd": 800.0}
 DEFAULT_HEATING = {"fuel": "natural_gas", "efficiency": 0.80, "price": 1.40}
 
 
-def house_document(house: House, *, extra_package: list[str] | None = None) -> HouseDocument:
-    """The house as one document; ``extra_package`` adds a package of chosen upgrade ids."""
+def house_document(
+    house: House,
+    *,
+    extra_package: list[str] | None = None,
+    uncertainty: dict[str, Any] | None = None,
+    optimize: dict[str, Any] | None = None,
+) -> HouseDocument:
+    """The house as one document; ``extra_package`` adds a package of chosen upgrade ids;
+    ``uncertainty`` and ``optimize`` (the document's fields, e.g. for the compare page) ask
+    for ranges and the best package. Neither is stored with the house."""
     surfaces = [_surface(s) for s in house.surfaces]
     known = {u.slug for u in house.upgrades}
     packages = [
@@ -67,6 +75,10 @@ def house_document(house: House, *, extra_package: list[str] | None = None) -> H
     if house.bills:  # the heating fuel's bills, stored as the document's (services/house_bills)
         body["bills"] = house.bills
     _export_gains(house, body)
+    if uncertainty is not None:
+        body["uncertainty"] = uncertainty
+    if optimize is not None:
+        body["optimize"] = optimize
     try:
         return HouseDocument.model_validate(body)
     except ValidationError as exc:
@@ -88,7 +100,8 @@ CLIMATE_KEYS = ("hdd", "cdd", "heating_base", "cooling_base", "variable_base",
 
 def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
     """The calculation's part of the stored climate (the weather file's details stay behind,
-    except its temperature bins when the climate has none of its own: a heat pump uses them)."""
+    except its temperature bins and 99 % design temperature when the climate has none of its
+    own: a heat pump and the design load use them)."""
     out = {k: v for k, v in (stored or {}).items() if k in CLIMATE_KEYS and v is not None}
     weather = (stored or {}).get("weather")
     if (
@@ -97,6 +110,12 @@ def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
         and weather.get("temperature_bins")
     ):
         out["temperature_bins"] = weather["temperature_bins"]
+    if (  # the design load's 99 % temperature: typed, else the weather file's
+        "heating_design_temperature" not in out
+        and isinstance(weather, dict)
+        and weather.get("heating_design_temperature") is not None
+    ):
+        out["heating_design_temperature"] = weather["heating_design_temperature"]
     return out
 
 

@@ -27,11 +27,19 @@ SURFACE_KINDS = {
     "kneewall": "Kneewall",
     "rim_joist": "Rim joist",
     "floor": "Floor over unheated space",
+    "slab": "Slab on ground",
+    "basement_floor": "Basement floor",
     "basement_wall": "Basement wall",
     "door": "Door",
     "window": "Window",
 }
-DEFAULT_HEAT_FLOW = {"ceiling": "up", "cathedral_roof": "up", "floor": "down"}
+DEFAULT_HEAT_FLOW = {
+    "ceiling": "up",
+    "cathedral_roof": "up",
+    "floor": "down",
+    "slab": "down",
+    "basement_floor": "down",
+}
 
 
 #: the largest id the id columns hold on both backends (PostgreSQL INTEGER: 2**31 - 1); a larger
@@ -320,6 +328,7 @@ def switch_units(
 ) -> None:
     """Convert every stored number of the house to the other unit system."""
     from server.services import convert as cv
+    from server.services import convert_envelope as ce
 
     check_version(house, expected_version)
     src: Units = house.units  # type: ignore[assignment]
@@ -334,6 +343,8 @@ def switch_units(
         else:
             surface.assembly = cv.convert_assembly(surface.assembly, src, units)
             surface.area = cv.convert_value(surface.area or 0.0, "area", src, units)
+            if surface.details:  # a ground surface's ISO 13370 inputs
+                surface.details = ce.surface_details_fields(surface.details, src, units)
     for upgrade in house.upgrades:
         upgrade.document = cv.convert_upgrade(upgrade.document, src, units)
     if house.climate:
@@ -352,6 +363,10 @@ def switch_units(
     if house.air_leakage and isinstance(house.air_leakage.get("mechanical_ventilation"), dict):
         vent = cs.ventilation_fields(house.air_leakage["mechanical_ventilation"], src, units)
         house.air_leakage = {**house.air_leakage, "mechanical_ventilation": vent}
+    if house.spaces:  # buffer spaces: volume, exposed areas and U-factors
+        from server.services.spaces import convert_spaces
+
+        house.spaces = convert_spaces(house.spaces, src, units)
     if house.floor_area:
         house.floor_area = cv.convert_value(house.floor_area, "area", src, units)
     if house.volume:

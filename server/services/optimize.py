@@ -38,6 +38,10 @@ from server.physics import optimize as search
 from server.physics.units import from_si
 from server.physics.variants import Variants, unsupported
 from server.services.catalog import Catalog
+from server.services.house_figures import _option
+from server.services.house_input import _Build, _check_ids, _house
+from server.services.house_spaces import _check_spaces, _with_spaces
+from server.services.house_upgrades import _upgrade
 
 OBJECTIVE_WORDS = {
     "npv": "net present value",
@@ -50,13 +54,11 @@ def model_of_document(
     doc: HouseDocument, *, catalog: Catalog | None = None
 ) -> tuple[model.House, list[model.Upgrade]]:
     """The pure house and upgrades of a document, by the steps of ``compute_house``."""
-    from server.services import house as service
-
-    build = service._Build(units=doc.units, catalog=catalog)
-    service._check_ids(doc, build)
-    service._check_spaces(doc, build)
-    house = service._with_spaces(doc, service._house(doc, build))
-    pure = [service._upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
+    build = _Build(units=doc.units, catalog=catalog)
+    _check_ids(doc, build)
+    _check_spaces(doc, build)
+    house = _with_spaces(doc, _house(doc, build))
+    pure = [_upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
     build.raise_problems()
     return house, [u for u in pure if u is not None]
 
@@ -73,8 +75,6 @@ def attach_optimum(
     wanted = doc.optimize
     if wanted is None:
         return
-    from server.services.house import _option
-
     budget = math.inf if wanted.budget is None else wanted.budget
     reason = unsupported(house, upgrades)
     variants = None

@@ -113,7 +113,7 @@ def flow_si(value: float, units: str) -> float:
 
 
 def indoor_c(doc: HouseDocument) -> float:
-    from server.services.house import INDOOR_DESIGN_C
+    from server.services.house_design import INDOOR_DESIGN_C
 
     indoor = doc.climate.indoor_design_temperature
     return INDOOR_DESIGN_C[doc.units] if indoor is None else temp_to_c(indoor, doc.units)

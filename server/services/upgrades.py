@@ -12,6 +12,7 @@ from server.documents.assembly import AssemblyResult
 from server.documents.house import CostIn
 from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
+from server.services import upgrade_forms as forms
 from server.services.catalog import Catalog
 from server.services.houses import NotFound, check_version, checked_assembly, touch, unique_slug
 from server.services.typical import typical_assemblies
@@ -135,10 +136,46 @@ def add_pipe_insulation(
     return upgrade
 
 
+def add_kind_upgrade(
+    *, session: Session, house: House, surface: Surface | None, part: str, name: str,
+    change: dict[str, Any], fixed: float, per_area: float, catalog: Catalog,
+    expected_version: int | None,
+) -> Upgrade:  # fmt: skip
+    """An upgrade of form ``part`` (see upgrade_forms.FORM_KINDS): a ground, window or duct
+    change, stored as calc/house reads it once the whole house computes with it."""
+    check_version(house, expected_version)
+    kind = forms.FORM_KINDS[part]
+    wanted = forms.PART_SURFACES.get(part)
+    if wanted is not None and (surface is None or surface.kind not in wanted):
+        kinds = " or ".join(k.replace("_", " ") for k in wanted)
+        raise InputError("surface_id", f"this upgrade goes on a {kinds}: choose one from the list")
+    if wanted is None and not (house.heating or {}).get("ducts"):
+        raise InputError("change", "describe the house's ducts (Heating, ducts) first")
+    if part == "slab_edge" and surface is not None and not (surface.details or {}).get("ground"):
+        raise InputError(
+            "surface_id",
+            f"enter {surface.name}'s ground contact (perimeter, soil) on its page first",
+        )
+    costs = _costs(fixed, per_area if PRICED_PER.get(kind) else 0.0, 0.0, forms.LIFE_YEARS[part])
+    doc = forms.new_document(part, change, surface=surface, costs=costs)
+    name = name.strip() or forms.DEFAULT_NAMES[part].format(surface=surface.name if surface else "")
+    slug = _slug(name, {u.slug for u in house.upgrades})
+    forms.check_in_house(house, slug=slug, kind=kind, document=doc, catalog=catalog)
+    upgrade = Upgrade(house=house, surface_id=surface.id if surface else None, position=len(house.upgrades),
+                      slug=slug, name=name[:200], kind=kind, document=doc)  # fmt: skip
+    session.add(upgrade)
+    touch(house)
+    session.flush()
+    return upgrade
+
+
 def update_upgrade(
     *, session: Session, house: House, upgrade: Upgrade, name: str, fixed: float, per_area: float,
     rebate: float, life_years: float | None, expected_version: int | None,
+    change: dict[str, Any] | None = None, catalog: Catalog | None = None,
 ) -> None:  # fmt: skip
+    """New prices (and, with ``change``, the kind's own fields, checked with ``catalog`` by
+    computing the house before anything is stored)."""
     check_version(house, expected_version)
     doc = dict(upgrade.document)
     doc.pop("price_item", None)  # typed prices replace a price-book link
@@ -146,6 +183,15 @@ def update_upgrade(
     doc.update(_costs(fixed, per_area if per else 0.0, rebate, life_years))
     if per == "length":  # pipe insulation is priced per length, not per area
         doc["cost"] = {"fixed": doc["cost"]["fixed"], "per_length": doc["cost"]["per_area"]}
+    if change is not None:
+        for key, value in change.items():
+            if value is None:
+                doc.pop(key, None)  # e.g. a jacket emissivity cleared: the default again
+            else:
+                doc[key] = value
+        if catalog is not None:
+            forms.check_in_house(house, slug=upgrade.slug, kind=upgrade.kind, document=doc,
+                                 catalog=catalog)  # fmt: skip
     upgrade.document = doc
     upgrade.name = (name.strip() or upgrade.name)[:200]
     touch(house)
@@ -190,13 +236,15 @@ def add_package(
     chosen = [s for s in dict.fromkeys(upgrade_slugs) if s in known]
     if not chosen:
         raise InputError("upgrades", "tick at least one upgrade for the package")
+    house_wide = {"air_sealing": "air", "duct_sealing": "duct leakage", "duct_insulation": "duct R"}
     targets = [
-        "air" if known[s].kind == "air_sealing" else known[s].document.get("surface") or s
-        for s in chosen
+        house_wide.get(known[s].kind) or known[s].document.get("surface") or s for s in chosen
     ]
     if len(set(targets)) != len(targets):
         raise InputError(
-            "upgrades", "a package can hold only one upgrade per surface (and one air sealing)"
+            "upgrades",
+            "a package can hold only one upgrade per surface (and one air sealing, one duct "
+            "sealing and one duct insulation)",
         )
     name = name.strip() or " + ".join(known[s].name for s in chosen)[:200]
     package = Package(house=house, position=len(house.packages), slug=_slug(name, {p.slug for p in house.packages}),

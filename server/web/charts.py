@@ -37,9 +37,11 @@ def both_layouts(wide: str, narrow: str) -> Markup:
 
 
 def bar_chart(
-    rows: list[tuple[str, float, str]], *, title: str, unit: str = "", layout: str = "wide"
-) -> str:
-    """Horizontal bars: (label, value, value text). ``layout="narrow"`` puts labels above."""
+    rows: list[tuple[str, float, str]], *, title: str, unit: str = "", layout: str = "wide",
+    label_width: int = 210,
+) -> str:  # fmt: skip
+    """Horizontal bars: (label, value, value text). ``layout="narrow"`` puts labels above;
+    ``label_width`` (wide layout) is the room left of the bars for the labels."""
     top = max((v for _, v, _ in rows), default=0) or 1.0
     desc = "; ".join(f"{label}: {text}" for label, _, text in rows)
     desc += f" ({unit})" if unit else ""
@@ -50,18 +52,18 @@ def bar_chart(
             y = 6 + i * row_h
             w = max(0.0, value) / top * (width - 84)
             parts.append(
-                f'<text x="0" y="{y + 15}" fill="{INK}">{escape(label[:40])}</text>'
+                f'<text x="0" y="{y + 15}" fill="{INK}">{escape(label[:44])}</text>'
                 f'<rect x="0" y="{y + 21}" width="{w:.1f}" height="14" fill="{BAR}" rx="2"/>'
                 f'<text x="{w + 6:.1f}" y="{y + 33}" fill="{INK}">{escape(text)}</text>'
             )
         return _svg(width, row_h * len(rows) + 8, title, desc, "".join(parts), font=15)
-    width, row_h, label_w = 640, 30, 210
+    width, row_h, label_w = 640, 30, label_width
     height = row_h * len(rows) + 20
     for i, (label, value, text) in enumerate(rows):
         y = 10 + i * row_h
         w = max(0.0, value) / top * (width - label_w - 110)
         parts.append(
-            f'<text x="{label_w - 8}" y="{y + 19}" text-anchor="end" fill="{INK}">{escape(label[:32])}</text>'
+            f'<text x="{label_w - 8}" y="{y + 19}" text-anchor="end" fill="{INK}">{escape(label[: label_w // 7 + 2])}</text>'
             f'<rect x="{label_w}" y="{y + 5}" width="{w:.1f}" height="{row_h - 10}" fill="{BAR}" rx="2"/>'
             f'<text x="{label_w + w + 6:.1f}" y="{y + 19}" fill="{INK}">{escape(text)}</text>'
         )

@@ -53,7 +53,7 @@ __all__ = [  # what the pages import from here (the first ten are server.deps' o
 ]  # fmt: skip
 SAFE_METHODS = frozenset({"GET", "HEAD", "OPTIONS", "TRACE"})
 PUBLIC_PATHS = frozenset({"/login", "/healthz", "/openapi.json", "/docs", "/docs/oauth2-redirect",
-                          "/redoc"})  # fmt: skip
+                          "/redoc", "/sw.js", "/offline"})  # fmt: skip
 PUBLIC_PREFIXES = ("/s/", "/static/", "/api/v1/calc/")
 CSRF_EXEMPT_PREFIXES = ("/api/v1/calc/",)  # stateless, public, called by other tools
 

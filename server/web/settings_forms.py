@@ -65,7 +65,6 @@ SECTIONS: dict[str, tuple[str, type[BaseModel], tuple[Field_, ...]]] = {
     "air_leakage": ("Air leakage", AirLeakageIn, (
         Field_("cfm50", "Blower door CFM50", "ft³/min", "ft³/min", optional=True),
         Field_("n50", "or ACH50", "1/h", "1/h", optional=True),
-        Field_("n_factor", "N-factor", "", "", optional=True),
         Field_("volume", "Conditioned volume", "ft³", "m³"),
     )),
     "economics": ("Money", EconomicsIn, (

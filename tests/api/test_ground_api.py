@@ -304,7 +304,9 @@ HOUSE: dict[str, Any] = {
 
 
 def _house(doc: dict[str, Any]) -> dict[str, Any]:
-    response = client.post(HOUSE_URL, json=doc)
+    response = client.post(
+        HOUSE_URL, json={**doc, "detail": {"upgrades_alone": "full"}}
+    )  # upgrades alone in full
     assert response.status_code == 200, response.text
     return response.json()
 

@@ -214,7 +214,9 @@ def test_pipe_run_and_pipe_insulation():
             "cost": {"fixed": 20, "per_length": 2.5},
         }
     )
-    response = client.post(URL, json=doc)
+    response = client.post(
+        URL, json={**doc, "detail": {"upgrades_alone": "full"}}
+    )  # every field of each upgrade alone
     assert response.status_code == 200, response.text
     result = response.json()
     # The pipe calculator's own heat loss for the same run, × 2000 h, is the annual loss.

@@ -57,7 +57,9 @@ DOC_IP: dict[str, Any] = {
 
 
 def post(doc: dict, client: TestClient = stateless) -> dict:
-    response = client.post(URL, json=doc)
+    response = client.post(
+        URL, json={**doc, "detail": {"upgrades_alone": "full"}}
+    )  # upgrades alone in full
     assert response.status_code == 200, response.text
     return response.json()
 
@@ -351,9 +353,9 @@ def test_export_import_keeps_spaces(client: TestClient) -> None:
     assert created.status_code == 201, created.text
     exported = client.get(f"/api/v1/houses/{created.json()['id']}/document").json()
     assert exported["spaces"] == [
-        {**ATTIC_SPACE, "exposed": [{"name": "roof", "area": 1200, "u": 0.1}], "b": None},
-        {"id": "garage", "label": "garage", "exposed": None, "volume": None, "air_changes": None,
-         "b": 0.7},
+        {**ATTIC_SPACE, "kind": None, "exposed": [{"name": "roof", "area": 1200, "u": 0.1}], "b": None},
+        {"id": "garage", "label": "garage", "kind": None, "exposed": None, "volume": None,
+         "air_changes": None, "b": 0.7},
     ]  # fmt: skip
     assert [s["adjacent"] for s in exported["surfaces"]] == ["attic", "garage"]
     again = client.post("/api/v1/houses", json=exported)

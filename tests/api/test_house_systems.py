@@ -31,7 +31,9 @@ TMY3 = pathlib.Path(pvlib.__file__).parent / "data" / "723170TYA.CSV"
 
 
 def _post(doc: dict) -> dict:
-    response = client.post(URL, json=doc)
+    response = client.post(
+        URL, json={**doc, "detail": {"upgrades_alone": "full"}}
+    )  # upgrades alone in full
     assert response.status_code == 200, response.text
     return response.json()
 

@@ -8,11 +8,15 @@ from typing import Any
 from sqlalchemy.orm import Session
 
 from server.services import houses as svc
+from server.services.envelope import envelope_rows
 from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for
 from server.services.typical import typical_assemblies
+from server.web.pages.bills import bills_context
 from server.web.pages.settings import settings_context
 from server.web.pages.sharing import share_context
+from server.web.pages.spaces import spaces_context
+from server.web.pages.systems import systems_context
 
 #: the House page's sections in the order an auditor walks through them (anchor key, label)
 HOUSE_SECTIONS: tuple[tuple[str, str], ...] = (
@@ -42,15 +46,19 @@ def house_context(*, session: Session, organization_id: int, house_id: int) -> d
     share-links sections, and empty add-forms (a route puts a rejected form's text over them)."""
     house = svc.get_house(session=session, organization_id=organization_id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=organization_id)
-    rows, total_ua = svc.surface_rows(
+    rows, total_ua, as_found = envelope_rows(  # calc/house's figures: behind, b, ground U
         house, catalog, rows_for(session=session, organization_id=organization_id)
     )
     return {
         **settings_context(house=house),
         **share_context(session=session, organization_id=organization_id, house=house),
+        **systems_context(house=house, catalog=catalog),
+        **bills_context(house=house, catalog=catalog),
+        **spaces_context(session=session, organization_id=organization_id, house=house),
         "house": house,
         "rows": rows,
         "total_ua": total_ua,
+        "envelope_error": as_found.error,
         "pipes": svc.pipe_rows(house),
         "kinds": svc.SURFACE_KINDS,
         "typicals": typical_assemblies(),

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from typing import Any, cast
 
 from sqlalchemy.orm import Session
@@ -11,10 +12,12 @@ from server.documents.common import Units
 from server.errors import InputError
 from server.models import House, Surface
 from server.services import houses as svc
+from server.services import surface_details as details_svc
 from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
+from server.services.envelope import as_found, behind_label, is_ground
 from server.services.firm_code_targets import rows_for
 from server.services.library import list_materials
 from server.services.moisture import check_assembly_moisture
@@ -53,6 +56,55 @@ def moisture_context(
     return {"check": check, "svg": condensation_svg(check.result, units=_units(house))}
 
 
+def details_context(
+    *,
+    house: House,
+    surface: Surface,
+    catalog: Catalog,
+    typed: Mapping[str, str] | None = None,
+    errors: Mapping[str, str] | None = None,
+) -> dict[str, Any]:
+    """The "Surface details" form: the stored text (or what was typed), messages per field,
+    the pickers, and calc/house's own figures for this surface (behind, b, ground U)."""
+    kind = (typed or {}).get("kind") or surface.kind
+    if kind not in svc.SURFACE_KINDS:
+        kind = surface.kind
+    found = as_found(house, catalog)
+    figures = found.by_id.get(surface.slug)
+    ground = (surface.details or {}).get("ground") or {}
+    below = None
+    if surface.kind == "basement_wall" and is_ground(surface):
+        below = float(ground.get("depth") or 0.0) * float(ground.get("exposed_perimeter") or 0.0)
+    behind = (surface.details or {}).get("adjacent")
+    return {
+        "dt": {**details_svc.details_text(house, surface), **(typed or {})},
+        "de": dict(errors or {}),
+        "d_kind": kind,
+        "d_ground_kinds": details_svc.GROUND_KINDS,
+        "d_ground_shown": details_svc.GROUND_SHOWN.get(kind, ()),
+        "d_rated": kind in details_svc.RATED_KINDS,
+        "d_window": kind == "window",
+        "d_soils": details_svc.soil_choices(_units(house)),
+        "d_compass": details_svc.COMPASS,
+        "d_spaces": [s for s in (house.spaces or []) if isinstance(s, dict) and s.get("id")],
+        "d_help": details_svc.ground_help(_units(house)),
+        "d_figures": figures,
+        "d_figures_error": found.error,
+        "d_is_ground": is_ground(surface),
+        "d_behind": behind_label(house, surface),
+        "d_b": figures.b if figures is not None and behind in found.spaces else None,
+        "d_below_grade_area": below,
+        "d_layered_u": None
+        if details_svc.rated_u(surface.assembly or {}) is not None
+        else _saved_u(house=house, surface=surface, catalog=catalog),
+    }
+
+
+def _saved_u(*, house: House, surface: Surface, catalog: Catalog) -> float | None:
+    result = saved_result(house=house, surface=surface, catalog=catalog)
+    return None if result is None else float(result.u_factor)
+
+
 def surface_context(
     *,
     session: Session,
@@ -63,10 +115,15 @@ def surface_context(
     result: AssemblyResult | None,
     catalog: Catalog,
     message: str = "",
+    details_typed: Mapping[str, str] | None = None,
+    details_errors: Mapping[str, str] | None = None,
 ) -> dict[str, Any]:
     """The layer editor with ``form`` (the saved assembly's, or what was typed), its result,
-    the dew-point check, the code target's verdict and the cautions of the surface's kind."""
+    the dew-point check, the code target's verdict and the cautions of the surface's kind;
+    the details form (:func:`details_context`) with what was typed there and its messages."""
     return {
+        **details_context(house=house, surface=surface, catalog=catalog, typed=details_typed,
+                          errors=details_errors),
         "moisture": None if form.has_errors else moisture_context(
             house=house, surface=surface, result=result, catalog=catalog
         ),

@@ -19,6 +19,7 @@ from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
+from server.services.upgrade_forms import KIND_CAUTIONS, change_part, form_values, upgrade_effect
 from server.services.upgrades import PRICED_PER, edits_assembly
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, AssemblyForm, form_from_document
 
@@ -59,7 +60,12 @@ def upgrade_context(
             except (InputError, ValueError):
                 result = None
     kinds = [surface.kind] if surface else []
-    topics = ("air_sealing",) if upgrade.kind == "air_sealing" else ()
+    topics: tuple[str, ...] = ("air_sealing",) if upgrade.kind == "air_sealing" else ()
+    if surface is not None and surface.kind in ("slab", "basement_floor", "basement_wall"):
+        topics += ("foam",)  # ground insulation is foam board as a rule (common practice)
+    cautions = cautions_for(kinds, extra_topics=topics)
+    cautions += [c for c in KIND_CAUTIONS.get(upgrade.kind, ()) if c not in cautions]
+    effect, effect_error = upgrade_effect(house, upgrade, catalog=catalog)
     return {
         "house": house, "upgrade": upgrade, "surface": surface, "before": before, "form": form,
         "result": result, "message": message, "errors": errors or {}, "units": house.units,
@@ -67,7 +73,13 @@ def upgrade_context(
         "layer_types": LAYER_TYPES, "cavity_types": CAVITY_TYPES,
         "materials": list_materials(session=session, organization_id=organization_id),
         "typicals": typical_assemblies(), "moisture": None,
-        "cautions": cautions_for(kinds, extra_topics=topics),
+        "cautions": cautions,
+        "part": change_part(upgrade),  # the kind's own fields (None: layers or air sealing)
+        "change_values": form_values(upgrade, house.units),
+        "ducts": (house.heating or {}).get("ducts"),
+        "window_found": ((surface.details or {}).get("window") or {}) if surface else {},
+        "effect": effect,  # calc/house of the house with this upgrade alone
+        "effect_error": effect_error,
         "code": code_verdict(house.climate, surface.kind, result, rows_for(session=session, organization_id=organization_id)) if surface else None,
         "price_items": list_items(session=session, organization_id=organization_id),
         "priced_per": PRICED_PER.get(upgrade.kind),  # area | length | None (fixed only)

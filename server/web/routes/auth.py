@@ -118,6 +118,9 @@ def logout(
     response.headers.append(
         "set-cookie", expired_cookie_header(SESSION_COOKIE, secure=_secure(request))
     )
+    # The pages kept for offline use and the outbox go with the session (static/offline.js
+    # asks first when changes still wait, then deletes them itself; this covers the rest).
+    response.headers["Clear-Site-Data"] = '"cache", "storage"'
     return response
 
 

@@ -8,12 +8,14 @@ from fastapi.responses import RedirectResponse, Response
 from server.errors import InputError
 from server.services import houses as svc
 from server.services import idempotency as idem
+from server.services import system_sections as sys_svc
 from server.services import upgrades as upg
 from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import CurrentUser, OrgDep, PostedFields, SessionDep, render
 from server.web.forms import form_version, parse_float, parse_length_field
 from server.web.pages.house import house_context
 from server.web.pages.pipe_run import pipe_run_context
+from server.web.systems_forms import parse_pipe_service
 
 router = APIRouter()
 
@@ -107,4 +109,37 @@ def insulate_pipe(
         except svc.Conflict:
             errors["form"] = stale_form()
     ctx = pipe_run_context(house=house, surface=surface, insulate_form=data, insulate_errors=errors)
+    return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))
+
+
+@router.post("/houses/{house_id}/pipes/{surface_id}/service")
+def save_pipe_service(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    data: PostedFields,
+    house_id: int,
+    surface_id: int,
+) -> Response:
+    """What the pipe carries, where it runs, its bare surface (no JavaScript needed)."""
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    surface = svc.get_surface(
+        session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
+    )
+    values, errors = parse_pipe_service(data, units=house.units, house=house)
+    try:
+        version = form_version(data)
+    except InputError as exc:
+        values, errors = None, {**errors, "form": exc.message}
+    if values is not None:
+        try:  # written now: Conflict for a stale form or when another save came first
+            sys_svc.save_pipe_service(house=house, surface=surface, values=values,
+                                      expected_version=version)  # fmt: skip
+            return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}#carries", 303)
+        except InputError as exc:
+            key = exc.field.replace("water_heater.", "heater_").split(".")[-1]
+            errors = {key if key in data else "form": exc.message}
+        except svc.Conflict:
+            errors = {"form": stale_form()}
+    ctx = pipe_run_context(house=house, surface=surface, service_form=data, service_errors=errors)
     return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))

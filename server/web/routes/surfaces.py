@@ -9,17 +9,17 @@ from fastapi.responses import HTMLResponse, RedirectResponse
 from sqlalchemy.orm import Session
 from starlette.responses import Response
 
-from server.documents.assembly import AssemblyInput, AssemblyResult
+from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
 from server.errors import InputError
 from server.models import House, Organization, Surface
 from server.services import houses as svc
-from server.services.assembly import evaluate_assembly
 from server.services.library import catalog_for
+from server.services.surface_details import save_surface_details
 from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.editor import run_editor
-from server.web.forms import form_version, parse_float
+from server.web.forms import form_version
 from server.web.layer_form import form_from_document
 from server.web.pages.pipe_run import pipe_run_context
 from server.web.pages.surface import saved_result, surface_context
@@ -91,12 +91,14 @@ def update_surface(
     surface_id: int,
 ) -> Response:
     house, surface = _load(session, org, house_id, surface_id)
+    catalog = catalog_for(session=session, organization_id=org.id)
     errors: dict[str, str] = {}
     try:
         version = form_version(data)
     except InputError as exc:
         version, errors[exc.field] = None, exc.message
-    if data.get("action") == "delete" and not errors:
+    deleting = data.get("action") == "delete"
+    if deleting and not errors:
         try:
             svc.delete_surface(
                 session=session, house=house, surface=surface, expected_version=version
@@ -104,18 +106,12 @@ def update_surface(
             return RedirectResponse(f"/houses/{house.id}", status_code=303)
         except svc.Conflict:
             errors["form"] = stale_form("nothing was deleted")
-    deleting = data.get("action") == "delete"
-    area = (
-        None if deleting else parse_float(data.get("area", ""), "area", errors, units=house.units)
-    )
-    if not errors:
+    if not errors and not deleting:
         try:
-            svc.update_surface(
-                session=session, house=house, surface=surface, name=data.get("name", ""),
-                kind=data.get("kind", surface.kind), area=area or 0.0, expected_version=version,
-            )  # fmt: skip
+            save_surface_details(session=session, house=house, surface=surface, data=data,
+                                 catalog=catalog, expected_version=version)  # fmt: skip
         except InputError as exc:
-            errors[exc.field] = exc.message
+            errors.update({e.field: e.message for e in exc.errors()})
         except svc.Conflict:
             errors["form"] = stale_form()
     if errors and surface.kind == "pipe_run":  # no layers to show: the pipe run's own page
@@ -123,15 +119,12 @@ def update_surface(
                                insulate_errors={"form": " ".join(errors.values())})  # fmt: skip
         return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))
     if errors:
-        catalog = catalog_for(session=session, organization_id=org.id)
         form = form_from_document(surface.assembly, cast(Units, house.units))
-        result = evaluate_assembly(
-            AssemblyInput.model_validate(surface.assembly),
-            units=cast(Units, house.units),  # the column holds only 'ip' or 'si'
-            catalog=catalog,
-        )
+        result = saved_result(house=house, surface=surface, catalog=catalog)
         ctx = surface_context(session=session, organization_id=org.id, house=house, surface=surface,
-                              form=form, result=result, catalog=catalog)  # fmt: skip
+                              form=form, result=result, catalog=catalog,
+                              details_typed=None if deleting else dict(data),
+                              details_errors=errors)  # fmt: skip
         ctx["detail_errors"], ctx["detail_form"] = errors, (None if deleting else data)
         return render(request, "pages/surface.html", ctx, status_code=rejected_status(errors))
     return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)

@@ -1,7 +1,74 @@
-"""House page routes: systems (filled in by its issue)."""
+"""House page routes: the systems cards (ducts, heat pump, design load, ventilation, ...)."""
 
 from __future__ import annotations
 
-from fastapi import APIRouter
+from typing import Any
+
+from fastapi import APIRouter, Request
+from fastapi.responses import RedirectResponse, Response
+from sqlalchemy.orm import Session
+
+from server.errors import InputError
+from server.models import House, Organization
+from server.services import houses as svc
+from server.services.library import catalog_for
+from server.services.system_sections import save_system_card
+from server.web.conflicts import stale_form
+from server.web.deps import OrgDep, PostedFields, SessionDep
+from server.web.forms import form_version
+from server.web.pages.house import house_context
+from server.web.pages.settings import settings_context
+from server.web.pages.systems import systems_context
+from server.web.render import is_htmx, page_or_fragment
+from server.web.systems_forms import CARDS, location_choices, parse_card
 
 router = APIRouter()
+
+
+def _respond(request: Request, session: Session, org: Organization, house: House,
+             ctx: dict[str, Any], status: int) -> Response:  # fmt: skip
+    """htmx: the section (and the settings block, whose forms carry the house version);
+    a saved form: back to the House page; a rejected one: the whole page, messages beside."""
+    if status == 200 and not is_htmx(request):
+        return RedirectResponse(f"/houses/{house.id}#systems", status_code=303)
+    return page_or_fragment(
+        request, page="pages/house.html", fragment="partials/house_systems_swap.html",
+        context={**settings_context(house=house), "house": house, "settings_oob": True, **ctx},
+        page_context=lambda: house_context(session=session, organization_id=org.id, house_id=house.id),
+        status_code=status,
+    )  # fmt: skip
+
+
+@router.post("/houses/{house_id}/systems/{card}")
+def save_card(
+    request: Request,
+    session: SessionDep,
+    org: OrgDep,
+    data: PostedFields,
+    house_id: int,
+    card: str,
+) -> Response:
+    house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
+    if card not in CARDS:
+        raise svc.NotFound
+    values, errors = parse_card(card, data, units=house.units, locations=location_choices(house))
+    status = 422
+    try:
+        version = form_version(data)
+    except InputError as exc:
+        values, errors = None, {**errors, "form": exc.message}
+    if values is not None:
+        try:  # written now: Conflict for a stale form or when another save came first
+            save_system_card(house=house, card=card, values=values, expected_version=version)
+            status = 200
+        except InputError as exc:
+            errors = {exc.field: exc.message}
+        except svc.Conflict:
+            errors, status = {"form": stale_form()}, 409
+    catalog = catalog_for(session=session, organization_id=org.id)
+    if status != 200:
+        ctx = systems_context(house=house, catalog=catalog, card=card, typed=data, errors=errors,
+                              message="Not saved: check the marked fields.")  # fmt: skip
+    else:
+        ctx = systems_context(house=house, catalog=catalog, message=f"{CARDS[card][0]} saved.")
+    return _respond(request, session, org, house, ctx, status)

@@ -7,13 +7,16 @@ from typing import Any, cast
 
 from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, RedirectResponse
+from sqlalchemy.orm import Session
 from starlette.responses import Response
 
 from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
 from server.errors import InputError
+from server.models import House
 from server.services import houses as svc
 from server.services import idempotency as idem
+from server.services import upgrade_forms as forms
 from server.services import upgrades as upg
 from server.services.library import catalog_for
 from server.services.number_text import NumberTextError, read_integer
@@ -21,11 +24,14 @@ from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import CurrentUser, OrgDep, PostedFields, PostedForm, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version, parse_float
+from server.web.layer_form import form_from_document
 from server.web.pages.house import house_context
+from server.web.pages.surface import saved_result, surface_context
 from server.web.pages.upgrade import upgrade_context
 from server.web.render import is_htmx, page_or_fragment
 
 router = APIRouter()
+Once = Callable[[str, Callable[[], str]], RedirectResponse]
 
 
 def _number(
@@ -38,6 +44,63 @@ def _number(
             errors[key] = "required"
         return None if optional else 0.0
     return parse_float(text, key, errors, positive=False, units=units)
+
+
+def _surface_id(data: dict[str, str]) -> int:
+    typed = data.get("surface_id", "")
+    try:
+        return read_integer(typed or "0", low=0)
+    except NumberTextError:
+        raise InputError(
+            "surface_id", f"'{typed}' is not a surface of this house: choose one from the list"
+        ) from None
+
+
+def _add_kind(
+    request: Request, session: Session, org_id: int, house: House, data: dict[str, str], once: Once
+) -> Response:
+    """A ground, window or duct upgrade from the House page or a Surface page (``back``)."""
+    part, units = data["kind"], house.units
+    errors: dict[str, str] = {}
+    surface = None
+    try:
+        if part in forms.PART_SURFACES:
+            surface = svc.get_surface(session=session, organization_id=org_id, house_id=house.id,
+                                      surface_id=_surface_id(data))  # fmt: skip
+        fixed = _number(data, "cost_fixed", errors, units=units) or 0.0
+        per_area = _number(data, "cost_per_area", errors, units=units) or 0.0
+        change: dict[str, Any] = {}
+        try:
+            change = forms.read_change(part, data, units=units, surface=surface,
+                                       ducts=(house.heating or {}).get("ducts"))  # fmt: skip
+        except forms.ChangeError as exc:
+            errors.update(exc.errors)
+        if not errors:
+            catalog = catalog_for(session=session, organization_id=org_id)
+
+            def work() -> str:
+                upgrade = upg.add_kind_upgrade(session=session, house=house, surface=surface, part=part,
+                                               name=data.get("name", ""), change=change, fixed=fixed,
+                                               per_area=per_area, catalog=catalog,
+                                               expected_version=form_version(data))  # fmt: skip
+                return f"/houses/{house.id}/upgrades/{upgrade.id}"
+
+            return once(f"upgrade:{part}", work)
+    except InputError as exc:
+        errors[exc.field] = exc.message
+    except svc.Conflict:
+        errors["form"] = stale_form()
+    status = rejected_status(errors)
+    if data.get("back") == "surface" and surface is not None:
+        catalog = catalog_for(session=session, organization_id=org_id)
+        form = form_from_document(surface.assembly, cast(Units, units))
+        ctx = surface_context(session=session, organization_id=org_id, house=house, surface=surface, form=form,
+                              result=saved_result(house=house, surface=surface, catalog=catalog), catalog=catalog)  # fmt: skip
+        ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
+        return render(request, "pages/surface.html", ctx, status_code=status)
+    ctx = house_context(session=session, organization_id=org_id, house_id=house.id)
+    ctx["upgrade_errors"], ctx["upgrade_form"] = errors, data
+    return render(request, "pages/house.html", ctx, status_code=status)
 
 
 @router.post("/houses/{house_id}/upgrades")
@@ -69,18 +132,11 @@ def add_upgrade(
                     return f"/houses/{house.id}#upgrades"
 
                 return once("air_sealing", sealing)
+        elif data.get("kind", "") in forms.FORM_KINDS:
+            return _add_kind(request, session, org.id, house, data, once)
         else:
-            typed = data.get("surface_id", "")
-            try:
-                surface_id = read_integer(typed or "0", low=0)
-            except NumberTextError:
-                raise InputError(
-                    "surface_id",
-                    f"'{typed}' is not a surface of this house: choose one from the list",
-                ) from None
-            surface = svc.get_surface(
-                session=session, organization_id=org.id, house_id=house.id, surface_id=surface_id
-            )
+            surface = svc.get_surface(session=session, organization_id=org.id, house_id=house.id,
+                                      surface_id=_surface_id(data))  # fmt: skip
 
             def assembly() -> str:
                 upgrade = upg.add_assembly_upgrade(session=session, house=house, surface=surface, name=data.get("name", ""),
@@ -130,9 +186,18 @@ def update_upgrade(
         per_area = _number(data, "cost_per_area", errors, units=units) or 0.0
         rebate = _number(data, "rebate", errors, units=units) or 0.0
         life = _number(data, "life_years", errors, units=units)
+        part, change, catalog = forms.change_part(upgrade), None, None
+        if part is not None:
+            try:
+                change = forms.read_change(part, data, units=units, surface=None,
+                                           ducts=(house.heating or {}).get("ducts"))  # fmt: skip
+            except forms.ChangeError as exc:
+                errors.update(exc.errors)
+            catalog = catalog_for(session=session, organization_id=org.id)
         if not errors:
             upg.update_upgrade(session=session, house=house, upgrade=upgrade, name=data.get("name", ""), fixed=fixed,
-                               per_area=per_area, rebate=rebate, life_years=life, expected_version=form_version(data))  # fmt: skip
+                               per_area=per_area, rebate=rebate, life_years=life, expected_version=form_version(data),
+                               change=change, catalog=catalog)  # fmt: skip
             return RedirectResponse(f"/houses/{house.id}/upgrades/{upgrade.id}", status_code=303)
     except InputError as exc:
         errors[exc.field] = exc.message
