@@ -32,7 +32,11 @@ DEMO_SURFACES = [
 ]
 
 #: the demo upgrades that are not a new assembly for a surface (``upgrades.kind``)
-DEMO_UPGRADE_KINDS = {"air-seal": "air_sealing", "duct-seal": "duct_sealing", "north-storms": "window"}
+DEMO_UPGRADE_KINDS = {
+    "air-seal": "air_sealing",
+    "duct-seal": "duct_sealing",
+    "north-storms": "window",
+}
 
 
 def load_demo_house(*, session: Session) -> int:
@@ -165,8 +169,14 @@ def _demo_upgrades(surfaces: Mapping[str, Surface]) -> list[tuple[str, str, dict
             "Slab edge: 2 in rigid foam, 2 ft down",
             {
                 "surface": surfaces["slab"].slug,
-                "ground": {"edge_insulation": {"orientation": "vertical", "width_or_depth": 2.0,
-                                               "r": 10.0, "thickness": 2.0}},  # fmt: skip
+                "ground": {
+                    "edge_insulation": {
+                        "orientation": "vertical",
+                        "width_or_depth": 2.0,
+                        "r": 10.0,
+                        "thickness": 2.0,
+                    }
+                },  # fmt: skip
                 "cost": {"fixed": 650, "per_area": 0.0},
                 "rebate": 0,
                 "life_years": 30,
@@ -175,8 +185,13 @@ def _demo_upgrades(surfaces: Mapping[str, Surface]) -> list[tuple[str, str, dict
         (
             "duct-seal",
             "Seal the crawlspace ducts",
-            {"supply_leakage_after": 0.04, "return_leakage_after": 0.03, "cost": {"fixed": 600},
-             "rebate": 100, "life_years": 20},  # fmt: skip
+            {
+                "supply_leakage_after": 0.04,
+                "return_leakage_after": 0.03,
+                "cost": {"fixed": 600},
+                "rebate": 100,
+                "life_years": 20,
+            },  # fmt: skip
         ),
     ]
 

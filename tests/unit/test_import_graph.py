@@ -19,9 +19,7 @@ LAYERS = ("server.web", "server.api", "server.deps", "server.errors", "server.ap
 #: cycles among services that were still being untangled when this test was written (each is a
 #: function-level import of a module that imports the importer back); the test fails on any
 #: other cycle, and keeps passing as these go away
-SERVICE_CYCLES_IN_PROGRESS = (
-    {"server.services.house_bills", "server.services.houses"},
-)
+SERVICE_CYCLES_IN_PROGRESS = ({"server.services.house_bills", "server.services.houses"},)
 
 
 def _script() -> ModuleType:
