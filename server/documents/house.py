@@ -699,11 +699,12 @@ class DetailIn(Strict):
     """How much of each option the calc/house response carries (the figures are the same)."""
 
     upgrades_alone: Literal["summary", "full"] = Field(
-        default="summary",
-        description="summary (default): each upgrade alone with id, name, upgrades, "
-        "annual_savings, net_cost, simple_payback_years, npv, sir, co2_avoided and warnings "
-        "(and calibrated with bills); full: every field, as a package has (its surface rows, "
-        "ua_by_surface, cash_flow, steps, ...). as_found and packages always carry every field",
+        default="full",
+        description="full (default): every field of each upgrade alone, as a package has (its "
+        "surface rows, ua_by_surface, cash_flow, steps, ...); summary: each upgrade alone with "
+        "id, name, upgrades, annual_savings, net_cost, simple_payback_years, npv, sir, "
+        "co2_avoided and warnings (and calibrated with bills), a far smaller response. as_found "
+        "and packages always carry every field",
     )
 
 
