@@ -12,7 +12,7 @@ from __future__ import annotations
 from typing import Any
 
 from server.documents.common import Units
-from server.physics.units import from_si, to_si
+from server.services.convert_systems import convert_number
 
 #: the ground object's fields and their quantity (server/documents/ground.py GroundIn)
 GROUND_QUANTITIES = {
@@ -26,14 +26,11 @@ GROUND_QUANTITIES = {
 EDGE_QUANTITIES = {"width_or_depth": "length", "r": "r", "thickness": "thickness"}
 
 
-def _value(value: Any, quantity: str, src: Units, dst: Units) -> Any:
-    if not isinstance(value, int | float) or isinstance(value, bool) or src == dst:
-        return value
-    return from_si(to_si(float(value), quantity, src), quantity, dst)
-
-
 def _fields(doc: dict[str, Any], quantities: dict[str, str], src: Units, dst: Units) -> dict:
-    return {k: _value(v, quantities[k], src, dst) if k in quantities else v for k, v in doc.items()}
+    return {
+        k: convert_number(v, quantities[k], src, dst) if k in quantities else v
+        for k, v in doc.items()
+    }
 
 
 def ground_fields(ground: dict[str, Any], src: Units, dst: Units) -> dict[str, Any]:
