@@ -211,8 +211,15 @@
   });
 
   function tryFlush() { if (navigator.onLine) { box.flush().then(show); } }
-  window.addEventListener("online", tryFlush);
-  window.addEventListener("offline", function () { box.summary().then(show); });
+  var OFFLINE_TEXT = "No connection: changes you make wait on this tablet and are sent when the connection returns.";
+  function netBanner(on) {
+    var b = document.getElementById("net-status");
+    if (!b) { return; }
+    if (on) { b.textContent = OFFLINE_TEXT; b.hidden = false; }
+    else if (b.textContent === OFFLINE_TEXT) { b.hidden = true; b.textContent = ""; }
+  }
+  window.addEventListener("online", function () { netBanner(false); tryFlush(); });
+  window.addEventListener("offline", function () { netBanner(true); box.summary().then(show); });
   document.addEventListener("visibilitychange", function () { if (!document.hidden) { tryFlush(); } });
 
   // --- sign-out: ask when changes still wait, then forget everything kept on this tablet ----
@@ -328,7 +335,10 @@
     navigator.serviceWorker.register("/sw.js", { scope: "/" }).then(function () {
       // The first visit was not fetched through the worker: fetch it again so it is kept.
       if (!navigator.serviceWorker.controller && box.user() && KEEPABLE.test(location.pathname) && navigator.onLine) {
-        controlled().then(function () { fetch(location.pathname, { credentials: "same-origin" }); });
+        controlled().then(function () {
+          // read the body to its end: an unread response through the worker stays open
+          fetch(location.pathname, { credentials: "same-origin" }).then(function (r) { return r.arrayBuffer(); }, function () {});
+        });
       }
     }, function () { /* no worker (private window, old browser): pages still work online */ });
     Array.prototype.forEach.call(document.querySelectorAll("[data-take-house]"), function (btn) {

@@ -9,6 +9,9 @@ import re
 
 import pytest
 
+playwright_api = pytest.importorskip("playwright.sync_api")
+expect = playwright_api.expect
+
 pytestmark = pytest.mark.browser
 VIEWPORTS = {"tablet": (1024, 768), "phone": (390, 844)}
 
@@ -110,10 +113,15 @@ def test_edit_survives_a_dropped_connection(browser, live_server: str, signed_in
     field.press("Tab")
     banner = page.locator("#net-status")
     banner.wait_for(state="visible")
-    assert "Not saved yet" in banner.inner_text()
+    assert "No connection" in banner.inner_text()
+    outbox = page.locator("#outbox-status")
+    expect(outbox).to_have_attribute("data-waiting", "1")
+    assert "1 change waits to be sent (no connection)" in outbox.inner_text()  # kept on the tablet
     assert page.locator("#l0-name").input_value() == "siding (edited offline)"  # kept on the page
     context.set_offline(False)
     banner.wait_for(state="hidden", timeout=15000)
+    expect(outbox).to_have_attribute("data-waiting", "0", timeout=15000)
+    assert "All changes sent" in outbox.inner_text()
     page.reload()
-    assert page.locator("#l0-name").input_value() == "siding (edited offline)"  # the retry saved it
+    assert page.locator("#l0-name").input_value() == "siding (edited offline)"  # the outbox sent it
     context.close()

@@ -22,7 +22,8 @@ from server.services.bill_weather import climate_normals, normal_daily_means, we
 from server.services.house import compute_house
 from server.services.house_bills import save_bills
 from server.services.house_document import house_document
-from server.services.houses import create_house, get_house, switch_units
+from server.services.house_units import switch_units
+from server.services.houses import create_house, get_house
 from tests.reference.test_bill_weather_pvlib import TMY3, daily_means_c, epw_of_one_year
 from tests.utils.tmy3 import synthetic_bills, to_f
 

@@ -43,6 +43,7 @@ class FirmAObjects:
     item_id: int
     user_id: int
     material_id: int
+    space_id: str
 
 
 @pytest.fixture
@@ -92,9 +93,10 @@ def firm_a_objects(app, firm_a: Account, staff_a: Account) -> FirmAObjects:  # t
                             conductivity_w_mk=0.03, source_kind="data sheet", source="test")  # fmt: skip
         s.add_all([link, item, material])
         s.flush()
-        assert surface_id is not None and upgrade_id is not None
+        assert surface_id is not None and upgrade_id is not None and house.spaces
+        space_id = house.spaces[0]["id"]
         return FirmAObjects(house_id, surface_id, upgrade_id, package_slug, link.id, item.id,
-                            staff_a.user_id, material.id)  # fmt: skip
+                            staff_a.user_id, material.id, space_id)  # fmt: skip
 
 
 def assert_no_firm_a_data(text: str, where: str) -> None:

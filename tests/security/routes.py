@@ -15,7 +15,10 @@ from tests.security.conftest import FirmAObjects, assert_no_firm_a_data
 
 METHODS = ("GET", "POST", "PUT", "PATCH", "DELETE")
 NOT_OURS = {"/static", "/openapi.json", "/docs", "/docs/oauth2-redirect", "/redoc"}
-PUBLIC_EXACT = {("GET", "/healthz"), ("GET", "/login"), ("POST", "/login")}
+#: the service worker and its fallback page are public: no house data in either (the worker's
+#: script is a static file; the fallback page says only that the page is not kept offline)
+PUBLIC_EXACT = {("GET", "/healthz"), ("GET", "/login"), ("POST", "/login"), ("GET", "/sw.js"),
+                ("GET", "/offline")}  # fmt: skip
 #: a page, a form post and a JSON route: the sample for the variants of one check
 SAMPLE = {("GET", "/houses"), ("POST", "/houses"), ("GET", "/api/v1/houses/{house_id}/document")}
 SIGN_IN_FIRST = {"detail": "sign in first", "errors": []}
@@ -56,6 +59,7 @@ def is_public_route(method: str, path: str) -> bool:
 
 def param_values(objects: FirmAObjects) -> dict[str, Any]:
     from server.web.settings_forms import SECTIONS
+    from server.web.systems_forms import CARDS
 
     return {
         "house_id": objects.house_id,
@@ -67,6 +71,8 @@ def param_values(objects: FirmAObjects) -> dict[str, Any]:
         "user_id": objects.user_id,
         "material_id": objects.material_id,
         "section": next(iter(SECTIONS)),
+        "card": next(iter(CARDS)),
+        "space_id": objects.space_id,
         "token": "A" * 43,
     }
 

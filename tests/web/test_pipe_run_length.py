@@ -12,6 +12,7 @@ from sqlalchemy.orm import Session
 
 from server.errors import InputError
 from server.models import Organization, Surface
+from server.services import house_units
 from server.services import houses as svc
 from server.services import price_book as book
 from server.services import upgrades as upg
@@ -53,7 +54,7 @@ def test_pipe_run_length_column_round_trip(session: Session) -> None:
     (imported,) = copy.surfaces
     assert (imported.area, imported.length) == (None, 40.0)
 
-    svc.switch_units(session=session, house=copy, units="si", expected_version=None)
+    house_units.switch_units(session=session, house=copy, units="si", expected_version=None)
     session.commit()
     # 40 ft × 0.3048 m/ft (exact, NIST SP 811 appendix B) = 12.192 m
     assert session.get(Surface, imported.id).length == pytest.approx(12.192)  # type: ignore[union-attr]

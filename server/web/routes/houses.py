@@ -6,6 +6,7 @@ from fastapi import APIRouter, Form, Request
 from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
+from server.services import house_units
 from server.services import houses as svc
 from server.services import idempotency as idem
 from server.web.conflicts import rejected_status, stale_form
@@ -120,7 +121,9 @@ def switch_units(
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     if units in ("ip", "si"):
         try:  # a stale tab is a conflict even when it asks for the units shown now
-            svc.switch_units(session=session, house=house, units=units, expected_version=version)  # type: ignore[arg-type]
+            house_units.switch_units(
+                session=session, house=house, units=units, expected_version=version
+            )  # type: ignore[arg-type]
         except svc.Conflict:
             context = house_context(session=session, organization_id=org.id, house_id=house_id)
             context["errors"] = {"units": stale_form("the units were not switched",
