@@ -122,8 +122,11 @@ def switch_units(
     if units in ("ip", "si"):
         try:  # a stale tab is a conflict even when it asks for the units shown now
             house_units.switch_units(
-                session=session, house=house, units=units, expected_version=version
-            )  # type: ignore[arg-type]
+                session=session,
+                house=house,
+                units=units,  # type: ignore[arg-type]
+                expected_version=version,
+            )
         except svc.Conflict:
             context = house_context(session=session, organization_id=org.id, house_id=house_id)
             context["errors"] = {"units": stale_form("the units were not switched",
