@@ -56,12 +56,14 @@ test: $(STAMP) browser
 	$(BIN)/python -m pytest --doctest-modules tests server/physics \
 	  --cov=server --cov-report=term:skip-covered --cov-fail-under=$(COVERAGE_FLOOR)
 
-## make bench: loopback load test (compare page, calc/house, a bare page of the same size) and
+## make bench: the core's in-process timings (bench_core), loopback load test (compare page,
+## calc/house, a bare page of the same size) and
 ## the weather-file reader timing; not part of make test (about two minutes)
 bench: $(STAMP)
 	@command -v wrk >/dev/null 2>&1 || { [ "$$(id -u)" = "0" ] && command -v apt-get >/dev/null 2>&1 \
 	  && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq wrk >/dev/null; } \
 	  || echo "wrk is not installed: the load comes from the slower Python client"
+	$(BIN)/python scripts/bench_core.py
 	$(BIN)/python scripts/bench_load.py
 	$(BIN)/python scripts/bench_weather.py
 	$(BIN)/python scripts/bench_bills.py

@@ -25,7 +25,7 @@ import pvlib
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from server.physics import bills  # noqa: E402
+from server.physics import bill_model, bills  # noqa: E402
 from server.services.weather_files import parse_weather_file  # noqa: E402
 
 TMY3 = pathlib.Path(pvlib.__file__).parent / "data" / "723170TYA.CSV"
@@ -40,19 +40,19 @@ def daily_means() -> np.ndarray:
     return temps[: 365 * 24].reshape(365, 24).mean(axis=1)
 
 
-def synthetic_bills(daily: np.ndarray, count: int) -> tuple[np.ndarray, list[bills.Period]]:
+def synthetic_bills(daily: np.ndarray, count: int) -> tuple[np.ndarray, list[bill_model.Period]]:
     years = -(-(count * PERIOD_DAYS) // 365)
     temps = np.tile(daily, years)
     periods = []
     for k in range(count):
         first = k * PERIOD_DAYS
         hdd = float(np.maximum(BASE_C - temps[first : first + PERIOD_DAYS], 0.0).sum())
-        periods.append(bills.Period(first, PERIOD_DAYS, ALPHA * PERIOD_DAYS + BETA * hdd))
+        periods.append(bill_model.Period(first, PERIOD_DAYS, ALPHA * PERIOD_DAYS + BETA * hdd))
     return temps, periods
 
 
 def timed_ms(
-    daily: np.ndarray, periods: list[bills.Period], cooling: bool, repeats: int
+    daily: np.ndarray, periods: list[bill_model.Period], cooling: bool, repeats: int
 ) -> list[float]:
     bills.fit_bills(daily, periods, cooling=cooling)  # warm up
     runs = []

@@ -146,3 +146,21 @@ document.addEventListener("htmx:xhr:progress", function (evt) {
   var bar = document.getElementById(form.getAttribute("data-progress"));
   if (bar) { bar.hidden = false; bar.value = Math.round(100 * evt.detail.loaded / evt.detail.total); }
 });
+// The House page: a save in one card makes a new house version, and every other form on the
+// page must carry it, or its next save is refused as someone else's edit. Each block htmx swaps
+// in says the version it was rendered at (data-house-version); one that lost to another save
+// is marked data-stale and never passes its newer version on. Without JS each save is a plain
+// POST and redirect, and the reloaded page carries the new version everywhere.
+document.addEventListener("htmx:afterSettle", function () {
+  "use strict";
+  var newest = -1;
+  document.querySelectorAll("[data-house-version]:not([data-stale])").forEach(function (el) {
+    var v = parseInt(el.getAttribute("data-house-version"), 10);
+    if (v > newest) { newest = v; }
+  });
+  if (newest < 0) { return; }
+  document.querySelectorAll("form input[name=version]").forEach(function (input) {
+    var v = parseInt(input.value, 10);
+    if (!isNaN(v) && v < newest) { input.value = String(newest); }
+  });
+});

@@ -46,6 +46,12 @@ Why a mixed-integer linear programme is exact here (the proof)
    over-states every set's objective (the objective falls as UA grows): its optimum is an upper
    bound on the true optimum. The answer is then the solver's set re-evaluated exactly, with a
    warning stating that bound; it is never called exact.
+6. Ducts, or windows' sun with the variable base (:mod:`.variant_systems`): the fuel is
+   Q / η_dist with η_dist depending on the duct options, the buffer spaces' b (so on the
+   surfaces' options) and the season (so on UA), and the balance point depends on UA and on
+   each window's SHGC·A together. The objective is then not a function of the group sums and
+   not separable, so no formulation above is exact: up to :data:`MAX_ENUMERATION` sets every
+   set is evaluated on arrays (exact); above it no set is given, and the result says why.
 After solving, the chosen set is re-evaluated by the array core, so every figure is a package's.
 Among sets of equal objective the cheapest is taken (a second MILP minimising C with the
 objective held at the optimum, to 1e-9 of its spread).
@@ -585,8 +591,22 @@ def best_package(
     m = _model(variants, objective)
     convex = convex_on_range(m.pieces)
     warnings: list[str] = []
+    if variants.nonlinear is not None and sets > MAX_ENUMERATION:
+        # proof, 6: no linear model is exact; no answer rather than a heuristic
+        words = (
+            f"the objective depends on {variants.nonlinear}, so it is not a sum over the "
+            f"upgrades and no linear programme is exact; this house has {sets} sets of "
+            f"upgrades, more than the {MAX_ENUMERATION} evaluated one by one: no best set is "
+            "given"
+        )
+        empty = _candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
+        return Optimum(
+            objective, budget, empty, (), False, "enumeration", None, sets, False, (words,)
+        )
     if method == "enumeration" or (
-        method == "auto" and (m.relaxed or not convex) and sets <= MAX_ENUMERATION
+        method == "auto"
+        and (m.relaxed or not convex or variants.nonlinear is not None)
+        and sets <= MAX_ENUMERATION
     ):
         best, listed, capped = _enumerate(variants, budget, objective, frontier_limit)
         if capped:

@@ -255,7 +255,9 @@ def simulate(
     if heating.efficiency <= 1.0:
         eta = np.minimum(eta, 1.0)
     per_joule = heating.price_per_unit / heating.fuel.energy_per_unit_j / eta[:, None]
-    envelope = ua * variants.heating_degree_days(ua) * energy.DAY_S * per_joule
+    # each package's sun and ducts, repeated for every sample (its U spreads move only UA)
+    state = variants.state(sel).take(np.tile(np.arange(sel.shape[0]), samples))
+    envelope = variants.delivered_load_j(ua, state) * per_joule
     pipes = pipe_k[None, :] * per_joule
     cooling = _cooling_cost(variants, ua)
     h_env = envelope[:, :1] - envelope

@@ -40,181 +40,43 @@ References
 
 from __future__ import annotations
 
-import itertools
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 
 import numpy as np
-import numpy.typing as npt
 
 from server.physics import buffer_spaces as buffers
 from server.physics import economics as money
 from server.physics import energy
 from server.physics import house_model as model
+from server.physics import variant_systems as vsys
+from server.physics.variant_groups import (
+    GROUP_OPTION_CAP,
+    ChoiceGroup,
+    CoupledSpace,
+    Figures,
+    FloatArray,
+    IntArray,
+    Option,
+    adjustment_factor,
+    build_groups,
+    unsupported,
+)
+
+__all__ = [
+    "GROUP_OPTION_CAP",
+    "ChoiceGroup",
+    "CoupledSpace",
+    "Figures",
+    "FloatArray",
+    "IntArray",
+    "Option",
+    "Variants",
+    "adjustment_factor",
+    "unsupported",
+]
 from server.physics.fuels import KWH_J
 from server.physics.units import BTU_J, HOUR_S
-
-#: most options one buffer-space group may hold as a product of its surfaces' options (a
-#: memory bound, common practice); beyond it the surfaces stay separate coupled groups
-GROUP_OPTION_CAP = 65_536
-
-FloatArray = npt.NDArray[np.float64]
-IntArray = npt.NDArray[np.int64]
-
-
-@dataclass(frozen=True, slots=True)
-class Option:
-    """One state of a choice group.
-
-    ``ua_w_per_k`` is the group's UA contribution [W/K] (after b; for a coupled group the
-    plain U·A before b), ``pipe_loss_j`` its annual pipe loss [J]; money in the caller's
-    currency. ``upgrade_ids`` is empty for the as-found state.
-    """
-
-    upgrade_ids: tuple[str, ...]
-    ua_w_per_k: float = 0.0
-    pipe_loss_j: float = 0.0
-    installed_cost: float = 0.0
-    rebate: float = 0.0
-
-    @property
-    def net_cost(self) -> float:
-        """Installed cost − rebates [money]."""
-        return self.installed_cost - self.rebate
-
-
-@dataclass(frozen=True, slots=True)
-class ChoiceGroup:
-    """What one surface, buffer-space group, the air leakage or one pipe run can become.
-
-    ``targets`` are the :func:`.house_model.upgrade_target` names it covers; ``space`` is set
-    on a coupled group only (its U·A is summed with the space's other coupled groups and b is
-    applied to the sum).
-    """
-
-    key: str
-    targets: tuple[str, ...]
-    options: tuple[Option, ...]
-    space: str | None = None
-
-
-@dataclass(frozen=True, slots=True)
-class CoupledSpace:
-    """A buffer space whose surfaces stay separate groups: H_ue [W/K] and the group indices."""
-
-    id: str
-    h_ue_w_per_k: float
-    groups: tuple[int, ...]
-
-
-@dataclass(frozen=True, slots=True)
-class Figures:
-    """Figures of many variants, one array element per selection (SI, money, kg)."""
-
-    ua_w_per_k: FloatArray
-    heating_degree_days_k_day: FloatArray
-    heating_load_j: FloatArray
-    pipe_loss_j: FloatArray
-    heating_fuel_units: FloatArray
-    heating_cost: FloatArray
-    cooling_load_j: FloatArray
-    cooling_electricity_kwh: FloatArray
-    cooling_cost: FloatArray
-    total_cost: FloatArray
-    heating_co2_kg: FloatArray
-    cooling_co2_kg: FloatArray
-    co2_kg: FloatArray
-    co2_biogenic_kg: FloatArray
-    installed_cost: FloatArray
-    rebates: FloatArray
-    net_cost: FloatArray
-    annual_savings: FloatArray
-    co2_avoided_kg: FloatArray
-    present_value: FloatArray
-    npv: FloatArray
-    #: NaN where the net cost is zero or less (no investment: the ratio has no meaning)
-    sir: FloatArray
-
-
-def unsupported(house: model.House, upgrades: Sequence[model.Upgrade] = ()) -> str | None:
-    """What of ``house`` the array core does not model, in words, or None when it models all.
-
-    The core covers the degree-day house of :func:`.house_model.evaluate` without the
-    systems inputs (ducts, heat pump by bins, ventilation, altitude), with pipe runs counted
-    in full at the heating system (no ``location`` and no water heater of their own), and
-    assembly, air-sealing and pipe-insulation upgrades.
-    """
-    known = (model.AssemblyUpgrade, model.AirSealingUpgrade, model.PipeInsulationUpgrade)
-    for upgrade in upgrades:
-        if not isinstance(upgrade, known):
-            return f"upgrade '{upgrade.id}' ({type(upgrade).__name__})"
-    if house.systems is not None:
-        return "the heating and ventilation systems' inputs (ducts, bins, ventilation, altitude)"
-    if house.climate.variable_base is not None:
-        for surface in house.surfaces:
-            if surface.shgc > 0 and surface.solar_w_per_m2:
-                return f"window '{surface.id}': solar gains that move the balance point"
-    for upgrade in upgrades:
-        if isinstance(upgrade, model.AssemblyUpgrade) and upgrade.shgc is not None:
-            return f"upgrade '{upgrade.id}': a window's new solar heat gain coefficient"
-    for run in house.pipe_runs:
-        if run.location is not None or run.water_heater is not None:
-            return f"pipe run '{run.id}': where it runs or its own water heater"
-    return None
-
-
-def adjustment_factor(h_iu: FloatArray, h_ue: float) -> FloatArray:
-    """b = H_ue / (H_iu + H_ue), at most 1, and 0 when both are zero [2] (arrays, [W/K])."""
-    total = h_iu + h_ue
-    safe = np.where(total == 0, 1.0, total)
-    return np.where(total == 0, 0.0, np.minimum(1.0, h_ue / safe))
-
-
-def _air_options(house: model.House, upgrades: Sequence[model.AirSealingUpgrade]) -> ChoiceGroup:
-    leak = house.air_leakage
-    assert leak is not None
-    options = [
-        Option((), energy.infiltration_ua(leak.flow50_m3_per_s, leak.n_factor, leak.volume_m3))
-    ]
-    for upgrade in upgrades:
-        if upgrade.flow50_after_m3_per_s > leak.flow50_m3_per_s * (1 + 1e-12):
-            raise ValueError(
-                f"upgrade '{upgrade.id}': the air-sealing target is leakier than the house"
-            )
-        ua = energy.infiltration_ua(upgrade.flow50_after_m3_per_s, leak.n_factor, leak.volume_m3)
-        options.append(Option((upgrade.id,), ua, 0.0, upgrade.installed_cost, upgrade.rebate))
-    return ChoiceGroup("air", ("air",), tuple(options))
-
-
-def _surface_options(
-    surface: model.Surface, upgrades: Sequence[model.AssemblyUpgrade], b: float
-) -> tuple[Option, ...]:
-    found = Option((), b * surface.u_si * surface.area_m2)
-    return (found,) + tuple(
-        Option((u.id,), b * u.u_si * surface.area_m2, 0.0, u.installed_cost, u.rebate)
-        for u in upgrades
-    )
-
-
-def _product(
-    space: buffers.BufferSpace, members: Sequence[tuple[Option, ...]]
-) -> tuple[Option, ...]:
-    """Every combination of the members' options, with b(H_iu)·H_iu of that combination."""
-    options = []
-    for combo in itertools.product(*members):
-        h_iu = sum(o.ua_w_per_k for o in combo)
-        b = buffers.space_factors(space, h_iu).b
-        options.append(
-            Option(
-                tuple(name for o in combo for name in o.upgrade_ids),
-                b * h_iu,
-                0.0,
-                sum(o.installed_cost for o in combo),
-                sum(o.rebate for o in combo),
-            )
-        )
-    return tuple(options)
 
 
 class Variants:
@@ -254,89 +116,8 @@ class Variants:
                 raise ValueError(f"two upgrades are called '{upgrade.id}'")
             seen.add(upgrade.id)
         self.upgrades = {u.id: u for u in upgrades}
-        surfaces = {s.id: s for s in house.surfaces}
-        pipes = {p.id: p for p in house.pipe_runs}
+        groups, coupled, self.ducts = build_groups(house, upgrades, group_cap)
         spaces = {s.id: s for s in house.spaces}
-        on_surface: dict[str, list[model.AssemblyUpgrade]] = {s: [] for s in surfaces}
-        on_pipe: dict[str, list[model.PipeInsulationUpgrade]] = {p: [] for p in pipes}
-        sealing: list[model.AirSealingUpgrade] = []
-        for upgrade in upgrades:
-            if isinstance(upgrade, model.AssemblyUpgrade):
-                if upgrade.surface_id not in surfaces:
-                    raise ValueError(
-                        f"upgrade '{upgrade.id}': there is no surface '{upgrade.surface_id}'"
-                    )
-                on_surface[upgrade.surface_id].append(upgrade)
-            elif isinstance(upgrade, model.PipeInsulationUpgrade):
-                if upgrade.pipe_id not in pipes:
-                    raise ValueError(
-                        f"upgrade '{upgrade.id}': there is no pipe run '{upgrade.pipe_id}'"
-                    )
-                on_pipe[upgrade.pipe_id].append(upgrade)
-            elif isinstance(upgrade, model.AirSealingUpgrade):
-                if house.air_leakage is None:
-                    raise ValueError(f"upgrade '{upgrade.id}': the house has no air-leakage figure")
-                sealing.append(upgrade)
-        groups: list[ChoiceGroup] = []
-        coupled: list[CoupledSpace] = []
-        done: set[str] = set()
-        for surface in house.surfaces:
-            behind = surface.adjacent
-            if behind in (buffers.OUTDOORS, buffers.GROUND):
-                options = _surface_options(surface, on_surface[surface.id], 1.0)
-                groups.append(
-                    ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options)
-                )
-                continue
-            if behind not in spaces:
-                raise ValueError(f"surface '{surface.id}': there is no space '{behind}'")
-            space = spaces[behind]
-            if space.b is not None:
-                b = buffers.space_factors(space, 0.0).b  # checks 0 <= b <= 1
-                options = _surface_options(surface, on_surface[surface.id], b)
-                groups.append(
-                    ChoiceGroup(f"surface:{surface.id}", (f"surface:{surface.id}",), options)
-                )
-                continue
-            if behind in done:
-                continue
-            done.add(behind)
-            members = [s for s in house.surfaces if s.adjacent == behind]
-            member_options = [_surface_options(s, on_surface[s.id], 1.0) for s in members]
-            targets = tuple(f"surface:{s.id}" for s in members)
-            if math.prod(len(o) for o in member_options) <= group_cap:
-                groups.append(
-                    ChoiceGroup(f"space:{behind}", targets, _product(space, member_options))
-                )
-            else:
-                first = len(groups)
-                for s, options in zip(members, member_options, strict=True):
-                    groups.append(
-                        ChoiceGroup(f"surface:{s.id}", (f"surface:{s.id}",), options, behind)
-                    )
-                h_ue = buffers.space_to_outside_conductance(
-                    space.exposed, space.volume_m3, space.air_changes_per_h
-                )
-                coupled.append(CoupledSpace(behind, h_ue, tuple(range(first, len(groups)))))
-        if house.air_leakage is not None:
-            groups.append(_air_options(house, sealing))
-        for run in house.pipe_runs:
-            options_list = [
-                Option(
-                    (),
-                    pipe_loss_j=energy.pipe_annual_loss(
-                        run.length_m, run.r_per_length_si, run.delta_t_k, run.hours_per_year
-                    ),
-                )
-            ]
-            for upgrade in on_pipe[run.id]:
-                loss = energy.pipe_annual_loss(
-                    run.length_m, upgrade.r_per_length_si, run.delta_t_k, run.hours_per_year
-                )
-                options_list.append(
-                    Option((upgrade.id,), 0.0, loss, upgrade.installed_cost, upgrade.rebate)
-                )
-            groups.append(ChoiceGroup(f"pipe:{run.id}", (f"pipe:{run.id}",), tuple(options_list)))
         self.groups: tuple[ChoiceGroup, ...] = tuple(groups)
         self.coupled: tuple[CoupledSpace, ...] = tuple(coupled)
         self._coupled_groups = frozenset(g for space in coupled for g in space.groups)
@@ -354,12 +135,92 @@ class Variants:
         self.pipe = [np.array([o.pipe_loss_j for o in g.options]) for g in self.groups]
         self.installed = [np.array([o.installed_cost for o in g.options]) for g in self.groups]
         self.rebate = [np.array([o.rebate for o in g.options]) for g in self.groups]
+        bases = (
+            0 if house.climate.variable_base is None else len(house.climate.variable_base.bases_c)
+        )
+        has_sun = any(o.solar_w for g in self.groups for o in g.options)
+        #: each group's options' solar tables (options, K) [W], None: no sun in the balance
+        self.solar = (
+            [
+                np.array([o.solar_w if o.solar_w else (0.0,) * bases for o in g.options])
+                for g in self.groups
+            ]
+            if has_sun
+            else None
+        )
+        self._duct_b = self._duct_locations(spaces)
+        #: why the objective is not a function of the group sums alone (None: it is, the
+        #: MILP of :mod:`.optimize` applies)
+        self.nonlinear: str | None = None
+        if self.ducts is not None:
+            self.nonlinear = (
+                "the ducts' distribution efficiency, which divides the heating load and "
+                "depends on the buffer spaces' b and the season"
+            )
+        elif has_sun:
+            self.nonlinear = (
+                "the windows' sun, which moves the balance point with each window's SHGC"
+            )
         econ = house.economics
         #: NIST 135's UPV* = Σ_{t=1..N} ((1 + e) / (1 + d))^t [4]
         self.upv = money.present_value_of_savings(
             1.0, econ.discount_rate, econ.escalation_rate, econ.years
         )
         self._as_found = self.evaluate(np.zeros((1, len(self.groups)), dtype=np.int64), _base=True)
+
+    def _duct_locations(
+        self, spaces: dict[str, buffers.BufferSpace]
+    ) -> tuple[tuple[str, float | int], tuple[str, float | int]]:
+        """Where the supply and return run, as ("b", value), ("group", g) or ("coupled", k)."""
+        if self.ducts is None:
+            return (("b", 0.0), ("b", 0.0))
+        found: list[tuple[str, float | int]] = []
+        for side in (self.ducts.system.supply, self.ducts.system.returns):
+            where = side.location
+            if where in (vsys.duct_physics.CONDITIONED, vsys.duct_physics.OUTDOORS):
+                found.append(("b", vsys.duct_physics.location_factor(where, {})))
+                continue
+            group = next(
+                (g for g, grp in enumerate(self.groups) if grp.key == f"space:{where}"), None
+            )
+            coupled = next((k for k, c in enumerate(self.coupled) if c.id == where), None)
+            if group is not None:
+                found.append(("group", group))
+            elif coupled is not None:
+                found.append(("coupled", coupled))
+            else:  # a given b, or a space no surface faces: b at H_iu = 0
+                found.append(("b", buffers.space_factors(spaces[where], 0.0).b))
+        return (found[0], found[1])
+
+    def state(self, selections: IntArray) -> vsys.State:
+        """The per-variant inputs beyond the group sums (sun, ducts) of each selection."""
+        sel = np.asarray(selections, dtype=np.int64)
+        if sel.ndim == 1:
+            sel = sel[None, :]
+        n = sel.shape[0]
+        solar = None
+        if self.solar is not None:
+            solar = np.zeros((n, self.solar[0].shape[1]))
+            for g, table in enumerate(self.solar):
+                solar += table[sel[:, g]]
+        if self.ducts is None:
+            return vsys.State(solar=solar)
+        sides = []
+        for kind, value in self._duct_b:
+            if kind == "b":
+                sides.append(np.full(n, float(value)))
+            elif kind == "group":
+                g = int(value)
+                b = np.array([o.space_b for o in self.groups[g].options], dtype=float)
+                sides.append(b[sel[:, g]])
+            else:
+                space = self.coupled[int(value)]
+                h_iu = np.zeros(n)
+                for g in space.groups:
+                    h_iu += self.ua[g][sel[:, g]]
+                sides.append(adjustment_factor(h_iu, space.h_ue_w_per_k))
+        leak_g = len(self.groups) - 2
+        return vsys.State(solar, sel[:, leak_g], sel[:, leak_g + 1], sides[0], sides[1])
 
     # --- selections ---------------------------------------------------------------------------
 
@@ -445,29 +306,35 @@ class Variants:
             ua += adjustment_factor(h_iu, space.h_ue_w_per_k) * h_iu
         return ua, pipe, installed, rebate
 
-    def heating_degree_days(self, ua: FloatArray) -> FloatArray:
+    def heating_degree_days(self, ua: FloatArray, state: vsys.State | None = None) -> FloatArray:
         """HDD [K·day] at each UA [W/K]: fixed, or at the clamped balance point (as
-        :meth:`.house_model.Climate.heating_degree_days`)."""
-        climate = self.house.climate
-        vb = climate.variable_base
+        :meth:`.house_model.Climate.heating_degree_days`, the sun of ``state`` included)."""
         ua = np.asarray(ua, dtype=float)
-        if vb is None:
-            return np.full(ua.shape, climate.hdd_k_day)
-        positive = ua > 0
-        safe = np.where(positive, ua, 1.0)
-        balance = np.clip(vb.setpoint_c - vb.internal_gains_w / safe, vb.bases_c[0], vb.bases_c[-1])
-        hdd = np.interp(balance, np.array(vb.bases_c), np.array(vb.hdd_k_day))
-        return np.where(positive, hdd, climate.hdd_k_day)
+        return vsys.heating_energy(self.house, ua, self._state_for(ua, state), None)[0]
 
-    def heating_load_j(self, ua: FloatArray) -> FloatArray:
+    def heating_load_j(self, ua: FloatArray, state: vsys.State | None = None) -> FloatArray:
         """Annual heating load Q = UA · HDD(UA) · 86 400 s/day [J] [1]."""
         ua = np.asarray(ua, dtype=float)
-        return ua * self.heating_degree_days(ua) * energy.DAY_S
+        return vsys.heating_energy(self.house, ua, self._state_for(ua, state), None)[1]
+
+    def delivered_load_j(self, ua: FloatArray, state: vsys.State | None = None) -> FloatArray:
+        """What the equipment must make for the load, Q / η_dist [J] (Q without ducts)."""
+        ua = np.asarray(ua, dtype=float)
+        state = self._state_for(ua, state)
+        return vsys.heating_energy(self.house, ua.ravel(), state, self.ducts)[2].reshape(ua.shape)
+
+    def _state_for(self, ua: FloatArray, state: vsys.State | None) -> vsys.State:
+        if state is not None:
+            return state
+        if self.nonlinear is not None:
+            raise ValueError(f"the heating of this house needs each variant's {self.nonlinear}")
+        return vsys.State()
 
     def evaluate(self, selections: IntArray, *, _base: bool = False) -> Figures:
         """Every figure of each selection (rows of option indices), as arrays [1], [4]."""
         ua, pipe, installed, rebate = self.group_sums(selections)
-        return self.figures_from_sums(ua, pipe, installed, rebate, _base=_base)
+        state = self.state(selections)
+        return self.figures_from_sums(ua, pipe, installed, rebate, state=state, _base=_base)
 
     def figures_from_sums(
         self,
@@ -476,15 +343,18 @@ class Variants:
         installed: FloatArray,
         rebate: FloatArray,
         *,
+        state: vsys.State | None = None,
         _base: bool = False,
     ) -> Figures:
-        """Every figure from the group sums: UA [W/K], pipe loss [J], installed cost, rebates."""
+        """Every figure from the group sums: UA [W/K], pipe loss [J], installed cost, rebates
+        (and ``state``: each variant's sun and ducts, needed when the house has them)."""
         house = self.house
         ua = np.asarray(ua, dtype=float)
-        hdd = self.heating_degree_days(ua)
-        load = ua * hdd * energy.DAY_S
+        hdd, load, delivered = vsys.heating_energy(
+            house, ua, self._state_for(ua, state), self.ducts
+        )
         heating = house.heating
-        fuel = (load + pipe) / (heating.efficiency * heating.fuel.energy_per_unit_j)
+        fuel = (delivered + pipe) / (heating.efficiency * heating.fuel.energy_per_unit_j)
         heating_co2 = fuel * model.heating_co2_per_unit(house)
         biogenic = heating_co2 if heating.fuel.biogenic else np.zeros_like(heating_co2)
         heating_co2 = heating_co2 - biogenic

@@ -23,6 +23,7 @@ from server.physics.films import surface_films
 from server.physics.lumber import lumber_size
 from server.physics.steel_framing import steel_stud_effective_r
 from server.physics.units import INCH_M, format_inches, from_si, r_si_to_ip, to_si
+from server.services import assembly_cache
 from server.services.catalog import Catalog, MaterialSpec, builtin_catalog
 
 #: framing conductivity above this [W/(m·K)] is metal: parallel path does not hold
@@ -204,8 +205,17 @@ def evaluate_assembly(
     catalog: Catalog | None = None,
     field: str = "",
 ) -> AssemblyResult:
-    """R-values of an assembly in the request's units. Raises InputError with field paths."""
+    """R-values of an assembly in the request's units. Raises InputError with field paths.
+
+    Results are kept between calls (:mod:`.assembly_cache`: same document, units, field and
+    catalog rows give the same result)."""
     catalog = builtin_catalog() if catalog is None else catalog
+    return assembly_cache.cached(_evaluate, assembly, units=units, catalog=catalog, field=field)
+
+
+def _evaluate(
+    assembly: AssemblyInput, *, units: Units, catalog: Catalog, field: str
+) -> AssemblyResult:
     prefix = field
     builder = _Builder(units, catalog, prefix)
     layers = []

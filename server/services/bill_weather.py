@@ -34,7 +34,7 @@ from datetime import date, timedelta
 from typing import Any, BinaryIO, Literal
 
 from server.errors import InputError
-from server.physics import bills as bill_physics
+from server.physics import bill_model
 from server.physics import degree_days as dd
 from server.physics.units import UnitSystem, temp_from_c, temp_to_c
 from server.services.number_text import NumberTextError, read_decimal
@@ -303,7 +303,7 @@ def read_degree_day_base(text: object, *, units: UnitSystem) -> float:
         value = read_decimal(text, decimal_comma=units == "si")
     except NumberTextError as exc:
         raise InputError("degree_day_base", str(exc)) from None
-    low, high = bill_physics.HEATING_BASE_RANGE_C
+    low, high = bill_model.HEATING_BASE_RANGE_C
     if not low - 1e-9 <= temp_to_c(value, units) <= high + 1e-9:
         raise InputError(
             "degree_day_base",

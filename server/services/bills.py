@@ -11,11 +11,12 @@ days; an estimated read; no heating signal (β ≤ 0 at every base); a heating s
 twice its standard error; a small heating share; the best base at an end of the search range;
 a cooling term kept; no efficiency given; no normal temperatures; degree-days typed at a
 stated base (then the fit takes that base, :func:`server.physics.bills.fit_degree_days`).
+
+The document's periods, temperatures and data warnings are read by
+:mod:`server.services.bill_periods`.
 """
 
 from __future__ import annotations
-
-from datetime import date, timedelta
 
 from pydantic import ValidationError
 
@@ -28,18 +29,23 @@ from server.documents.bills import (
     CriterionOut,
 )
 from server.errors import InputError
+from server.physics import bill_figures, bill_model
 from server.physics import bills as physics
 from server.physics.fuels import KWH_J, fuel_by_slug
 from server.physics.units import DELTA_F_K, UnitSystem, from_si, temp_from_c, temp_to_c
+from server.services.bill_periods import (
+    PLAUSIBLE_C,
+    covered_periods,
+    daily_temperatures_c,
+    data_warnings,
+    normal_temperatures_c,
+    ordered_periods,
+    temperature_words,
+)
 
 #: fuels whose meter is an electricity meter (a cooling term may be tried)
 ELECTRIC_FUELS = frozenset({"electricity", "electric_resistance", "heat_pump"})
-#: plausible daily mean outdoor temperatures [°C] (common practice: beyond the records)
-PLAUSIBLE_C = (-90.0, 60.0)
-#: PRISM-style guidance on the data (common practice): periods, longest period [days]
-MIN_PERIODS = 9
-MAX_PERIOD_DAYS = 40
-YEAR_DAYS = 330
+
 
 METHOD = (
     "PRISM-style variable-base degree-day regression (Fels 1986): use per day = α + β · HDD(τ) "
@@ -57,163 +63,13 @@ def fuel_unit_and_energy(fuel: str) -> tuple[str, str, float]:
     return row.label, row.unit, row.energy_per_unit_j
 
 
-def _words(units: UnitSystem, value_c: float) -> str:
-    return f"{temp_from_c(value_c, units):.1f} {'°F' if units == 'ip' else '°C'}"
-
-
-def _daily_c(bills: BillsIn, units: UnitSystem, prefix: str) -> list[float | None]:
-    assert bills.daily_temperatures is not None
-    low, high = PLAUSIBLE_C
-    out: list[float | None] = []
-    for index, value in enumerate(bills.daily_temperatures.values):
-        if value is None:
-            out.append(None)
-            continue
-        celsius = temp_to_c(value, units)
-        if not low <= celsius <= high:
-            raise InputError(
-                f"{prefix}daily_temperatures.values[{index}]",
-                f"{value:g} is not a plausible daily mean (give {_words(units, low)} to "
-                f"{_words(units, high)})",
-            )
-        out.append(celsius)
-    return out
-
-
-def _normal_c(bills: BillsIn, units: UnitSystem, prefix: str) -> list[float] | None:
-    if bills.normal_temperatures is None:
-        return None
-    low, high = PLAUSIBLE_C
-    out = []
-    for index, value in enumerate(bills.normal_temperatures.values):
-        celsius = temp_to_c(value, units)
-        if not low <= celsius <= high:
-            raise InputError(
-                f"{prefix}normal_temperatures.values[{index}]",
-                f"{value:g} is not a plausible daily mean",
-            )
-        out.append(celsius)
-    return out
-
-
-def _ordered(bills: BillsIn, prefix: str) -> list[tuple[int, BillPeriodIn]]:
-    """Periods in date order with their document index; refuses empty and overlapping ones."""
-    for index, period in enumerate(bills.periods):
-        if period.end <= period.start:
-            raise InputError(
-                f"{prefix}periods[{index}].end",
-                f"must be after start ({period.start.isoformat()}): a period runs from one "
-                "meter read to the next",
-            )
-    ordered = sorted(enumerate(bills.periods), key=lambda item: item[1].start)
-    for (i_prev, prev), (i_next, nxt) in zip(ordered, ordered[1:], strict=False):
-        if nxt.start < prev.end:
-            raise InputError(
-                f"{prefix}periods[{i_next}].start",
-                f"overlaps periods[{i_prev}] ({prev.start.isoformat()} to "
-                f"{prev.end.isoformat()}); each day belongs to one period",
-            )
-    return ordered
-
-
-def _covered(
-    ordered: list[tuple[int, BillPeriodIn]],
-    first: date,
-    daily: list[float | None],
-    prefix: str,
-) -> list[physics.Period]:
-    """The periods as indices into the daily series; 422 at the first day without a value."""
-    out = []
-    last = first + timedelta(days=len(daily) - 1)
-    for index, period in ordered:
-        start = (period.start - first).days
-        days = (period.end - period.start).days
-        for offset in range(days):
-            day = start + offset
-            if day < 0 or day >= len(daily) or daily[day] is None:
-                missing = period.start + timedelta(days=offset)
-                raise InputError(
-                    f"{prefix}daily_temperatures",
-                    f"has no value for {missing.isoformat()} (in periods[{index}], "
-                    f"{period.start.isoformat()} to {period.end.isoformat()}); the daily "
-                    f"temperatures run from {first.isoformat()} to {last.isoformat()} and must "
-                    "cover every day of every period",
-                )
-        out.append(physics.Period(start, days, period.use))
-    return out
-
-
-def _listed(items: list[str], most: int = 5) -> str:
-    """``a, b and c``; past ``most`` items, ``a, b, c, d, e and 7 more``."""
-    if len(items) > most:
-        return ", ".join(items[:most]) + f" and {len(items) - most} more"
-    return items[0] if len(items) == 1 else ", ".join(items[:-1]) + " and " + items[-1]
-
-
-def _data_warnings(ordered: list[tuple[int, BillPeriodIn]]) -> list[str]:
-    notes = []
-    count = len(ordered)
-    total = sum((p.end - p.start).days for _i, p in ordered)
-    if count == 1:
-        notes.append(
-            "a single period: no regression is possible, so its average daily use is reported "
-            "as the baseload, with no heating slope"
-        )
-    elif count < MIN_PERIODS:
-        notes.append(
-            f"only {count} periods: a reliable fit needs at least {MIN_PERIODS}, covering a "
-            "heating season and some mild months"
-        )
-    if count > 1 and total < YEAR_DAYS:
-        notes.append(
-            f"the periods cover {total} days, less than a year: the fit may not see the whole "
-            "range of the weather"
-        )
-    gaps = []
-    for (i_prev, prev), (i_next, nxt) in zip(ordered, ordered[1:], strict=False):
-        gap = (nxt.start - prev.end).days
-        if gap > 0:
-            gaps.append(
-                f"{gap} day{'s' if gap != 1 else ''} between periods[{i_prev}] (read "
-                f"{prev.end.isoformat()}) and periods[{i_next}] (read {nxt.start.isoformat()})"
-            )
-    if gaps:
-        notes.append(
-            f"{'a gap' if len(gaps) == 1 else f'{len(gaps)} gaps'} between periods: "
-            f"{_listed(gaps)}; the use of those days is not in the bills, so it is not in the fit"
-        )
-    long = [
-        f"periods[{index}] ({period.start.isoformat()} to {period.end.isoformat()}, "
-        f"{(period.end - period.start).days} days)"
-        for index, period in ordered
-        if (period.end - period.start).days > MAX_PERIOD_DAYS
-    ]
-    if long:
-        notes.append(
-            f"{_listed(long)} {'runs' if len(long) == 1 else 'run'} more than "
-            f"{MAX_PERIOD_DAYS} days: a long period blurs the weather it saw (often two bills "
-            "merged, or a missed read)"
-        )
-    estimated = [
-        f"periods[{index}] ({period.start.isoformat()} to {period.end.isoformat()})"
-        for index, period in ordered
-        if period.estimated
-    ]
-    if estimated:
-        notes.append(
-            f"{_listed(estimated)} {'is an estimated read' if len(estimated) == 1 else 'are estimated reads'}"
-            ": the utility guessed the use, and the next actual read corrects it"
-        )
-    return notes
-
-
 def _fit_daily(
     bills: BillsIn,
     ordered: list[tuple[int, BillPeriodIn]],
     units: UnitSystem,
     fuel: str,
     prefix: str,
-) -> physics.BillsFit:
+) -> bill_model.BillsFit:
     """The variable-base fit on daily temperatures covering every period."""
     for index, period in ordered:
         if period.hdd is not None:
@@ -227,8 +83,8 @@ def _fit_daily(
             "is required: the daily mean temperatures of the billing dates, or else each "
             "period's hdd with degree_day_base",
         )
-    daily = _daily_c(bills, units, prefix)
-    periods = _covered(ordered, bills.daily_temperatures.start, daily, prefix)
+    daily = daily_temperatures_c(bills, units, prefix)
+    periods = covered_periods(ordered, bills.daily_temperatures.start, daily, prefix)
     series = [0.0 if value is None else value for value in daily]
     cooling = bills.cooling_term == "auto" and fuel in ELECTRIC_FUELS
     return physics.fit_bills(series, periods, cooling=cooling)
@@ -236,7 +92,7 @@ def _fit_daily(
 
 def _fit_typed_degree_days(
     bills: BillsIn, ordered: list[tuple[int, BillPeriodIn]], units: UnitSystem, prefix: str
-) -> physics.BillsFit:
+) -> bill_model.BillsFit:
     """The fit at the stated base on each period's typed degree-days (no base search)."""
     assert bills.degree_day_base is not None
     if bills.daily_temperatures is not None:
@@ -246,11 +102,11 @@ def _fit_typed_degree_days(
             "not both",
         )
     base_c = temp_to_c(bills.degree_day_base, units)
-    low, high = physics.HEATING_BASE_RANGE_C
+    low, high = bill_model.HEATING_BASE_RANGE_C
     if not low - 1e-9 <= base_c <= high + 1e-9:
         raise InputError(
             f"{prefix}degree_day_base",
-            f"must be between {_words(units, low)} and {_words(units, high)}",
+            f"must be between {temperature_words(units, low)} and {temperature_words(units, high)}",
         )
     hdd_k_day = []
     for index, period in ordered:
@@ -291,19 +147,19 @@ def fit_bills_document(
     ``efficiency`` None = 1.0 with a warning (``efficiency_note`` words a default the caller
     chose instead, e.g. the house's heating efficiency).
     """
-    normal = _normal_c(bills, units, prefix)
-    ordered = _ordered(bills, prefix)
+    normal = normal_temperatures_c(bills, units, prefix)
+    ordered = ordered_periods(bills, prefix)
     typed_base = bills.degree_day_base is not None
     try:
         if typed_base:
             fit = _fit_typed_degree_days(bills, ordered, units, prefix)
         else:
             fit = _fit_daily(bills, ordered, units, fuel, prefix)
-        normalized = None if normal is None else physics.normalize(fit, normal)
+        normalized = None if normal is None else bill_figures.normalize(fit, normal)
     except ValueError as exc:
         raise InputError(f"{prefix}periods", str(exc)) from None
     label, unit, energy_j = fuel_unit_and_energy(fuel)
-    warnings = _data_warnings(ordered)
+    warnings = data_warnings(ordered)
     if typed_base:
         assert bills.degree_day_base is not None
         warnings.append(
@@ -335,8 +191,8 @@ def fit_bills_document(
     def temp(value: float | None) -> float | None:
         return None if value is None else temp_from_c(value, units)
 
-    ua = physics.apparent_ua_w_per_k(fit.heating_slope, energy_j, efficiency)
-    checks = physics.criteria(fit)
+    ua = bill_figures.apparent_ua_w_per_k(fit.heating_slope, energy_j, efficiency)
+    checks = bill_figures.criteria(fit)
     met = [c.met for c in checks]
     try:
         return BillsResult(
@@ -406,18 +262,18 @@ def fit_bills_document(
 
 
 def _fit_warnings(
-    fit: physics.BillsFit,
-    normalized: physics.Normalized | None,
+    fit: bill_model.BillsFit,
+    normalized: bill_model.Normalized | None,
     units: UnitSystem,
     *,
     typed_base: bool = False,
 ) -> list[str]:
     notes = []
-    low, high = (_words(units, v) for v in physics.HEATING_BASE_RANGE_C)
+    low, high = (temperature_words(units, v) for v in bill_model.HEATING_BASE_RANGE_C)
     if fit.periods == 2 and not typed_base:
         notes.append(
             "two periods: the base temperature cannot be searched, so "
-            f"{_words(units, physics.REFERENCE_BASE_C)} is used (common practice)"
+            f"{temperature_words(units, bill_model.REFERENCE_BASE_C)} is used (common practice)"
         )
     if fit.periods >= 2 and fit.model == "baseload":
         notes.append(

@@ -130,7 +130,8 @@ def calibrate(doc: HouseDocument, result: HouseResult) -> None:
         )
         if ratio is not None:
             as_found_cost = result.as_found.heating_cost
-            for option in [*result.packages, *result.upgrades]:
+            best = [] if result.best is None else [result.best]
+            for option in [*result.packages, *result.upgrades, *best]:
                 option.calibrated = _calibrated(doc, option, as_found_cost, ratio)
     except (ValidationError, ValueError) as exc:
         raise InputError(

@@ -13,7 +13,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-from server.documents.house import HouseFigures, SpaceFigures, SurfaceFigures
+from server.documents.house import HouseFigures, HouseResult, SpaceFigures, SurfaceFigures
 from server.errors import InputError
 from server.models import House, Surface
 from server.services import houses as svc
@@ -34,22 +34,33 @@ class AsFound:
     spaces: dict[str, SpaceFigures] = field(default_factory=dict)
 
 
-def as_found(house: House, catalog: Catalog) -> AsFound:
-    """compute_house of the house's document with no upgrades or packages."""
-    try:
-        doc = house_document(house)
-        doc = doc.model_copy(update={"upgrades": [], "packages": []})
-        figures = compute_house(doc, catalog=catalog, upgrades_alone=False).as_found
-    except InputError as exc:
-        return AsFound(None, f"{exc.field}: {exc.message}")
-    except ValueError as exc:
-        return AsFound(None, str(exc))
+def as_found_of(figures: HouseFigures) -> AsFound:
+    """The as-found figures of a computed house, by surface and space id."""
     return AsFound(
         figures,
         None,
         {s.id: s for s in figures.surfaces},
         {s.id: s for s in figures.spaces},
     )
+
+
+def as_found_run(house: House, catalog: Catalog) -> tuple[HouseResult | None, AsFound]:
+    """compute_house of the house's document with no upgrades or packages: the whole result
+    (None when it fails) and its as-found figures (or why they could not be computed)."""
+    try:
+        doc = house_document(house)
+        doc = doc.model_copy(update={"upgrades": [], "packages": []})
+        result = compute_house(doc, catalog=catalog, upgrades_alone=False)
+    except InputError as exc:
+        return None, AsFound(None, f"{exc.field}: {exc.message}")
+    except ValueError as exc:
+        return None, AsFound(None, str(exc))
+    return result, as_found_of(result.as_found)
+
+
+def as_found(house: House, catalog: Catalog) -> AsFound:
+    """compute_house of the house's document with no upgrades or packages."""
+    return as_found_run(house, catalog)[1]
 
 
 def is_ground(surface: Surface) -> bool:
@@ -106,15 +117,17 @@ class EnvelopeRow:
 
 
 def envelope_rows(
-    house: House, catalog: Catalog, targets: Any = None
+    house: House, catalog: Catalog, targets: Any = None, *, found: AsFound | None = None
 ) -> tuple[list[EnvelopeRow], float, AsFound]:
-    """The envelope table's rows, the envelope UA and the as-found run behind them.
+    """The envelope table's rows, the envelope UA and the as-found run behind them (``found``
+    when the caller already computed the house, else computed here).
 
     UA and share come from calc/house (b·U·A; ground U × area) when the house computes; else
     from each assembly alone, as before, with :attr:`AsFound.error` saying why.
     """
     base, _ = svc.surface_rows(house, catalog, targets)
-    found = as_found(house, catalog)
+    if found is None:
+        found = as_found(house, catalog)
     rows: list[EnvelopeRow] = []
     for row in base:
         surface = row.surface

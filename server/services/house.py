@@ -176,8 +176,9 @@ def compute_house(
         raise
     if summaries:
         result.upgrades = [_summary(upgrade_names[s.id], s) for s in summaries]
-    calibrate(doc, result)  # with bills: calibration and each option's calibrated figures
+    # best first, so that it is calibrated and gets a range as every package does
     attach_optimum(doc, house, upgrades, as_found, result)  # with optimize
+    calibrate(doc, result)  # with bills: calibration and each option's calibrated figures
     attach_ranges(doc, house, upgrades, result)  # with uncertainty
     return result
 

@@ -39,9 +39,6 @@ from server.physics.units import from_si
 from server.physics.variants import Variants, unsupported
 from server.services.catalog import Catalog
 from server.services.house_figures import _option
-from server.services.house_input import _Build, _check_ids, _house
-from server.services.house_spaces import _check_spaces, _with_spaces
-from server.services.house_upgrades import _upgrade
 
 OBJECTIVE_WORDS = {
     "npv": "net present value",
@@ -53,14 +50,12 @@ OBJECTIVE_WORDS = {
 def model_of_document(
     doc: HouseDocument, *, catalog: Catalog | None = None
 ) -> tuple[model.House, list[model.Upgrade]]:
-    """The pure house and upgrades of a document, by the steps of ``compute_house``."""
-    build = _Build(units=doc.units, catalog=catalog)
-    _check_ids(doc, build)
-    _check_spaces(doc, build)
-    house = _with_spaces(doc, _house(doc, build))
-    pure = [_upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
-    build.raise_problems()
-    return house, [u for u in pure if u is not None]
+    """The pure house (windows' sun included) and upgrades of a document, as
+    ``compute_house`` builds them."""
+    from server.services.house import model_of_document as build  # house imports this module
+
+    house, upgrades, _warnings = build(doc, catalog=catalog)
+    return house, upgrades
 
 
 def attach_optimum(

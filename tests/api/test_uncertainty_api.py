@@ -169,14 +169,18 @@ def test_best_gets_a_range_too() -> None:
     assert out["best"]["range"]["annual_savings"]["p50"] > 0
 
 
-def test_a_house_the_array_core_cannot_model_gets_no_ranges() -> None:
+def test_a_house_with_ducts_gets_ranges() -> None:
+    # ducts (ASHRAE 152 distribution efficiency) are on the array core: ranges for them too,
+    # and with every spread 0 each range collapses onto the package's own figures
     body = with_uncertainty({"samples": 100})
     body["spaces"] = [{"id": "attic-space", "b": 0.9}]
     body["heating"]["ducts"] = copy.deepcopy(DUCTS)
     out = post(body)
-    assert out["uncertainty"]["available"] is False
-    assert any("no ranges" in w for w in out["uncertainty"]["warnings"])
-    assert all(p["range"] is None for p in out["packages"])
+    assert out["uncertainty"]["available"] is True
+    assert all(p["range"] is not None for p in out["packages"])
+    flat = post({**body, "uncertainty": {"samples": 100, "spreads": NO_SPREAD}})
+    for package in flat["packages"]:
+        assert package["range"]["annual_savings"]["p50"] == package["annual_savings"]
 
 
 @pytest.mark.parametrize(

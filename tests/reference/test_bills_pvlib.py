@@ -20,6 +20,7 @@ import numpy as np
 import pytest
 
 from server.documents.bills import BillsRequest
+from server.physics import bill_figures, bill_model
 from server.physics import bills as b
 from server.physics.units import f_to_c
 from server.services.bills import compute_bills
@@ -32,12 +33,14 @@ ALPHA, BETA_F, BASE_F = 1.0, 0.2, 60.0
 BETA_K, BASE_C = BETA_F * 1.8, f_to_c(BASE_F)  # per K·day = 1.8 × per °F·day
 
 
-def periods_of(bills: list[dict]) -> list[b.Period]:
+def periods_of(bills: list[dict]) -> list[bill_model.Period]:
     out = []
     for row in bills:
         start = (date.fromisoformat(row["start"]) - FIRST).days
         out.append(
-            b.Period(start, (date.fromisoformat(row["end"]) - FIRST).days - start, row["use"])
+            bill_model.Period(
+                start, (date.fromisoformat(row["end"]) - FIRST).days - start, row["use"]
+            )
         )
     return out
 
@@ -53,7 +56,7 @@ def true_normal_heating() -> float:
     return BETA_K * float(np.maximum(BASE_C - np.array(YEAR_C), 0.0).sum())
 
 
-def weighted_rows(periods: list[b.Period], base_c: float) -> tuple[np.ndarray, np.ndarray]:
+def weighted_rows(periods: list[bill_model.Period], base_c: float) -> tuple[np.ndarray, np.ndarray]:
     temps = np.array(TWO_YEARS_C)
     n = np.array([p.days for p in periods], dtype=float)
     hdd = np.array(
@@ -77,12 +80,12 @@ def test_noise_free_bills_give_back_the_parameters():
     assert len(periods) >= 22  # 730 days in periods of 28–33 days
     fit = b.fit_bills(TWO_YEARS_C, periods)
     # measured: τ within 0.001 K, α and β within 1e-4 (the golden-section tolerance)
-    assert fit.base_c == pytest.approx(BASE_C, abs=b.BASE_TOLERANCE_K)
+    assert fit.base_c == pytest.approx(BASE_C, abs=bill_model.BASE_TOLERANCE_K)
     assert fit.baseload_per_day == pytest.approx(ALPHA, rel=1e-3)
     assert fit.heating_slope == pytest.approx(BETA_K, rel=1e-3)
     assert fit.r_squared == pytest.approx(1.0, abs=1e-6)
     assert fit.cv_rmse is not None and fit.cv_rmse < 0.05
-    normal = b.normalize(fit, YEAR_C)
+    normal = bill_figures.normalize(fit, YEAR_C)
     assert normal.heating_use == pytest.approx(true_normal_heating(), rel=1e-3)
     assert normal.annual_use == pytest.approx(365 * ALPHA + true_normal_heating(), rel=1e-3)
 
@@ -97,7 +100,7 @@ def test_noisy_bills_give_back_the_parameters_within_stated_tolerances(seed):
     assert fit.base_c == pytest.approx(BASE_C, abs=1.0)
     assert fit.baseload_per_day == pytest.approx(ALPHA, rel=0.08)
     assert fit.heating_slope == pytest.approx(BETA_K, rel=0.10)
-    normal = b.normalize(fit, YEAR_C)
+    normal = bill_figures.normalize(fit, YEAR_C)
     assert normal.heating_use == pytest.approx(true_normal_heating(), rel=0.07)
     assert normal.annual_use == pytest.approx(365 * ALPHA + true_normal_heating(), rel=0.035)
     assert fit.cv_rmse is not None and 1.0 < fit.cv_rmse < 8.0  # noise of 3 % per bill
@@ -110,7 +113,8 @@ def test_noisy_fits_are_unbiased_on_average():
         fit = b.fit_bills(TWO_YEARS_C, periods_of(bills_c(noise=0.03, seed=seed)))
         slopes.append(fit.heating_slope / BETA_K - 1)
         annual.append(
-            b.normalize(fit, YEAR_C).annual_use / (365 * ALPHA + true_normal_heating()) - 1
+            bill_figures.normalize(fit, YEAR_C).annual_use / (365 * ALPHA + true_normal_heating())
+            - 1
         )
     assert abs(np.mean(slopes)) < 0.015
     assert abs(np.mean(annual)) < 0.005
@@ -147,7 +151,7 @@ def test_regression_at_the_chosen_base_matches_numpy_lstsq(seed):
 def test_chosen_base_is_the_best_of_a_brute_force_search_with_lstsq(seed):
     periods = periods_of(bills_c(noise=0.05, seed=seed))
     fit = b.fit_bills(TWO_YEARS_C, periods)
-    low, high = b.HEATING_BASE_RANGE_C
+    low, high = bill_model.HEATING_BASE_RANGE_C
     bases = np.arange(low, high + 1e-9, 0.01)
     errors = []
     for base in bases:

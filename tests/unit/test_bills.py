@@ -13,29 +13,30 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from server.physics import bill_figures, bill_model, bill_regression
 from server.physics import bills as b
 from server.physics.units import f_to_c
 
 
-def steps(*blocks: tuple[float, int]) -> tuple[list[float], list[b.Period]]:
+def steps(*blocks: tuple[float, int]) -> tuple[list[float], list[bill_model.Period]]:
     """Constant-temperature blocks laid end to end: (temperature °C, days) each."""
     temps: list[float] = []
     periods = []
     for temp, days in blocks:
-        periods.append(b.Period(len(temps), days, 0.0))
+        periods.append(bill_model.Period(len(temps), days, 0.0))
         temps.extend([temp] * days)
     return temps, periods
 
 
-def with_use(periods: list[b.Period], uses: list[float]) -> list[b.Period]:
-    return [b.Period(p.first_day, p.days, u) for p, u in zip(periods, uses, strict=True)]
+def with_use(periods: list[bill_model.Period], uses: list[float]) -> list[bill_model.Period]:
+    return [bill_model.Period(p.first_day, p.days, u) for p, u in zip(periods, uses, strict=True)]
 
 
 def test_weighted_line_by_hand():
     # x = 0, 1, 2; y = 1, 3.5, 5; w = 1, 2, 1: x̄ = 4/4 = 1, ȳ = 13/4 = 3.25, S_xx = 2,
     # S_xy = (−1)(−2.25) + (1)(1.75) = 4, β = 2, α = 3.25 − 2 = 1.25,
     # S = 0.0625 + 2·0.0625 + 0.0625 = 0.25
-    alpha, beta, sse, sxx = b.weighted_line(
+    alpha, beta, sse, sxx = bill_regression.weighted_line(
         np.array([0.0, 1.0, 2.0]), np.array([1.0, 3.5, 5.0]), np.array([1.0, 2.0, 1.0])
     )
     assert (alpha, beta, sse, sxx) == pytest.approx((1.25, 2.0, 0.25, 2.0), rel=1e-12)
@@ -44,15 +45,15 @@ def test_weighted_line_by_hand():
 def test_guideline14_statistics_by_hand():
     # residuals −10, 10, −10, 10: Σr² = 400, n − p = 4 − 2 = 2, RMSE = √200 = 14.1421,
     # ȳ = 250 -> CV(RMSE) = 100·14.1421/250 = 5.6569 %; Σr = 0 -> NMBE 0
-    cv, nmbe = b.guideline14_statistics([100, 200, 300, 400], [110, 190, 310, 390], 2)
+    cv, nmbe = bill_regression.guideline14_statistics([100, 200, 300, 400], [110, 190, 310, 390], 2)
     assert cv == pytest.approx(100 * math.sqrt(200) / 250, rel=1e-12)
     assert nmbe == pytest.approx(0.0, abs=1e-12)
     # all residuals +10 (measured above the model): NMBE = 100·40/(2·250) = 8 %
-    cv, nmbe = b.guideline14_statistics([100, 200, 300, 400], [90, 190, 290, 390], 2)
+    cv, nmbe = bill_regression.guideline14_statistics([100, 200, 300, 400], [90, 190, 290, 390], 2)
     assert nmbe == pytest.approx(8.0, rel=1e-12)
     assert cv == pytest.approx(5.656854, rel=1e-6)
     # n ≤ p: not computable
-    assert b.guideline14_statistics([1, 2, 3], [1, 2, 3], 3) == (None, None)
+    assert bill_regression.guideline14_statistics([1, 2, 3], [1, 2, 3], 3) == (None, None)
 
 
 def test_exact_fit_found_by_hand():
@@ -63,7 +64,7 @@ def test_exact_fit_found_by_hand():
     temps, periods = steps((0.0, 10), (10.0, 10), (20.0, 10), (5.0, 10))
     fit = b.fit_bills(temps, with_use(periods, [85.0, 35.0, 10.0, 60.0]))
     assert fit.model == "heating"
-    assert fit.base_c == pytest.approx(15.0, abs=b.BASE_TOLERANCE_K)
+    assert fit.base_c == pytest.approx(15.0, abs=bill_model.BASE_TOLERANCE_K)
     assert fit.baseload_per_day == pytest.approx(1.0, abs=1e-3)
     assert fit.heating_slope == pytest.approx(0.5, rel=1e-3)
     assert fit.parameters == 3  # α, β and τ
@@ -76,13 +77,13 @@ def test_normalize_and_ua_by_hand():
     temps, periods = steps((0.0, 10), (10.0, 10), (20.0, 10), (5.0, 10))
     fit = b.fit_bills(temps, with_use(periods, [85.0, 35.0, 10.0, 60.0]))
     # normal year: 365 days at 5 °C -> HDD(15) = 3650 K·day; annual = 365·1 + 0.5·3650
-    normal = b.normalize(fit, [5.0] * 365)
+    normal = bill_figures.normalize(fit, [5.0] * 365)
     assert normal.hdd_k_day == pytest.approx(3650.0, rel=2e-3)
     assert normal.annual_use == pytest.approx(365.0 + 1825.0, rel=2e-3)
     assert normal.heating_use == pytest.approx(1825.0, rel=2e-3)
     # 0.36 therm/(K·day) × 105 505 585 J/therm × 0.8 / 86 400 s = 351.685 W/K
     # (= 0.2 therm/(°F·day) × 100 000 Btu × 0.8 / 24 h = 666.67 Btu/(h·°F))
-    assert b.apparent_ua_w_per_k(0.36, 1.0e5 * 1055.05585262, 0.8) == pytest.approx(
+    assert bill_figures.apparent_ua_w_per_k(0.36, 1.0e5 * 1055.05585262, 0.8) == pytest.approx(
         351.6853, rel=1e-6
     )
 
@@ -124,7 +125,7 @@ def test_water_heating_only_is_all_baseload():
     fit = b.fit_bills(temps, with_use(periods, [2.0 * p.days for p in periods]))
     assert fit.model == "baseload"
     assert fit.baseload_per_day == pytest.approx(2.0)
-    assert b.normalize(fit, [0.0] * 365).heating_use == 0.0
+    assert bill_figures.normalize(fit, [0.0] * 365).heating_use == 0.0
 
 
 def test_cooling_term_only_for_electric_meters_and_when_it_helps():
@@ -150,10 +151,10 @@ def test_cooling_term_only_for_electric_meters_and_when_it_helps():
     "periods, message",
     [
         ([], "no periods"),
-        ([b.Period(0, 0, 1.0)], "at least one day"),
-        ([b.Period(0, 10, -1.0)], "zero or more"),
-        ([b.Period(0, 10, math.nan)], "finite"),
-        ([b.Period(25, 10, 1.0)], "cover"),
+        ([bill_model.Period(0, 0, 1.0)], "at least one day"),
+        ([bill_model.Period(0, 10, -1.0)], "zero or more"),
+        ([bill_model.Period(0, 10, math.nan)], "finite"),
+        ([bill_model.Period(25, 10, 1.0)], "cover"),
     ],
 )
 def test_bad_periods_raise_value_error(periods, message):
@@ -166,7 +167,7 @@ def test_criteria_name_their_source_and_judge_the_fit():
     uses = [30 * (1 + 0.5 * max(0.0, 16 - t)) * f for t, f in zip(
         (0.0, 5.0, 10.0, 15.0, 20.0, 25.0), (1.05, 0.95, 1.02, 0.97, 1.0, 1.01), strict=True)]  # fmt: skip
     fit = b.fit_bills(temps, with_use(periods, uses))
-    checks = b.criteria(fit)
+    checks = bill_figures.criteria(fit)
     assert [c.limit_percent for c in checks] == [15.0, 5.0, 20.0, 0.005]
     assert all("Guideline 14" in c.source for c in checks)
     for check in checks:
@@ -192,7 +193,7 @@ def synthetic(seed: int, alpha: float, beta: float, base: float, noise: float):
             break
         use = alpha * n + beta * float(np.maximum(base - temps[start : start + n], 0).sum())
         use *= 1.0 + float(rng.normal(0.0, noise))
-        periods.append(b.Period(start, n, max(use, 0.0)))
+        periods.append(bill_model.Period(start, n, max(use, 0.0)))
         start += n
     return temps, periods
 
@@ -214,7 +215,9 @@ def test_scaling_use_by_a_power_of_two_scales_alpha_and_beta_and_keeps_the_base(
     temps, periods = synthetic(*case)
     k = 2.0**power
     fit = b.fit_bills(temps, periods)
-    scaled = b.fit_bills(temps, [b.Period(p.first_day, p.days, p.use * k) for p in periods])
+    scaled = b.fit_bills(
+        temps, [bill_model.Period(p.first_day, p.days, p.use * k) for p in periods]
+    )
     assert scaled.model == fit.model
     assert scaled.base_c == fit.base_c
     assert scaled.baseload_per_day == pytest.approx(k * fit.baseload_per_day, rel=1e-12, abs=1e-300)
@@ -226,10 +229,12 @@ def test_scaling_use_by_a_power_of_two_scales_alpha_and_beta_and_keeps_the_base(
 def test_scaling_use_by_any_factor_scales_alpha_and_beta(case, k):
     temps, periods = synthetic(*case)
     fit = b.fit_bills(temps, periods)
-    scaled = b.fit_bills(temps, [b.Period(p.first_day, p.days, p.use * k) for p in periods])
+    scaled = b.fit_bills(
+        temps, [bill_model.Period(p.first_day, p.days, p.use * k) for p in periods]
+    )
     assert fit.model == "heating"  # β ≥ 0.05 per K·day: the signal is always there
     # the search compares scaled errors: rounding may move τ by at most the final bracket
-    assert scaled.base_c == pytest.approx(fit.base_c, abs=2 * b.BASE_TOLERANCE_K)
+    assert scaled.base_c == pytest.approx(fit.base_c, abs=2 * bill_model.BASE_TOLERANCE_K)
     assert scaled.heating_slope == pytest.approx(k * fit.heating_slope, rel=2e-3)
     assert scaled.baseload_per_day == pytest.approx(
         k * fit.baseload_per_day, rel=2e-3, abs=1e-3 * k * fit.heating_slope

@@ -85,16 +85,12 @@ def test_demo_house_every_option(app) -> None:  # type: ignore[no-untyped-def]
         demo = s.get(House, load_demo_house(session=s))
         body = house_document(demo).model_dump(mode="json", exclude_none=True)
         s.rollback()
-    # the demo's ducts, temperature bins and sun are beyond the array core: it says so, and
-    # its envelope (buffer spaces and the slab included) is compared without them
+    # the demo's ducts in the crawlspace, temperature bins, windows' sun with the variable
+    # base, duct sealing and storm windows: all on the array core now
     house, upgrades = model_of_document(HouseDocument.model_validate(body))
-    assert unsupported(house, upgrades) is not None
-    body["heating"].pop("ducts")
-    body["climate"].pop("temperature_bins", None)
-    body["climate"].pop("variable_base", None)
-    body["upgrades"] = [u for u in body["upgrades"] if u["id"] not in ("duct-seal", "north-storms")]
-    # 6 envelope upgrades alone and the two saved packages
-    assert check_document(HouseDocument.model_validate(body)) == 8
+    assert unsupported(house, upgrades) is None
+    # 8 upgrades alone and the two saved packages
+    assert check_document(HouseDocument.model_validate(body)) == 10
 
 
 def _figures_of(house: model.House, as_found: model.HouseEnergy, chosen: list[model.Upgrade]):  # type: ignore[no-untyped-def]

@@ -1,16 +1,21 @@
 """Seeded random pure houses (server.physics.house_model) with their upgrades, for the array
 core and optimiser tests: surfaces outdoors and facing buffer spaces (b computed or given),
 air sealing, pipe runs, fixed or variable base (convex tables built from daily means, or a
-table whose top clamp binds), cooling or none, every fuel."""
+table whose top clamp binds), cooling or none, every fuel; and with systems (bins, ducts,
+ventilation, altitude) and windows' sun (:func:`random_systems_house`)."""
 
 from __future__ import annotations
 
+import dataclasses
 import random
 
 import numpy as np
 
 from server.physics import buffer_spaces as buffers
+from server.physics import ducts as duct_physics
 from server.physics import house_model as model
+from server.physics import systems as sysm
+from server.physics import ventilation as vent_physics
 from server.physics.fuels import fuel_by_slug
 
 FUELS = ("natural_gas", "propane", "heating_oil", "electric_resistance", "heat_pump", "wood")
@@ -139,3 +144,96 @@ def random_house(
         spaces=tuple(space_rows),
     )
     return house, upgrades
+
+
+def random_systems_house(
+    rng: random.Random,
+    *,
+    max_sets: int = 4096,
+    bins: bool = True,
+    ducts: bool = False,
+    ventilation: bool = False,
+    sun: bool = False,
+) -> tuple[model.House, list[model.Upgrade]]:
+    """A :func:`random_house` with systems: temperature bins, ducts in a buffer space (b
+    computed or given), outdoors or indoors with sealing and insulation upgrades, mechanical
+    ventilation and altitude, and windows whose sun moves the variable base (their
+    upgrades change the SHGC). At most ``max_sets`` allowed sets."""
+    duct_room = 9 if ducts else 1
+    house, upgrades = random_house(
+        rng, max_sets=max(1, max_sets // duct_room), variable=True if sun else None, spaces=True
+    )
+    vb = house.climate.variable_base
+    surfaces = list(house.surfaces)
+    if sun and vb is not None:
+        bases = np.array(vb.bases_c)
+        for i, s in enumerate(surfaces):
+            if rng.random() < 0.6:
+                # mean plane irradiance over the heating days at base τ: rising with τ
+                start, rise = rng.uniform(10.0, 60.0), rng.uniform(0.0, 6.0)
+                steps = np.abs([rng.gauss(0.0, 1.0) for _ in bases]).cumsum()
+                plane = tuple(float(v) for v in start + rise * (bases - bases[0]) + steps)
+                surfaces[i] = dataclasses.replace(
+                    s, kind="window", shgc=rng.uniform(0.2, 0.8), solar_w_per_m2=plane
+                )
+        kinds = {s.id: s.kind for s in surfaces}
+        upgrades = [
+            dataclasses.replace(u, shgc=rng.choice([None, rng.uniform(0.1, 0.7)]))
+            if isinstance(u, model.AssemblyUpgrade) and kinds[u.surface_id] == "window"
+            else u
+            for u in upgrades
+        ]
+    bin_rows: tuple[tuple[float, float], ...] = ()
+    if bins:
+        bin_rows = tuple(
+            (float(t), rng.uniform(0.0, 600.0)) for t in range(-20, 26, rng.choice([2, 5]))
+        )
+    duct_system = None
+    if ducts:
+        places = ["conditioned", "outdoors"] + [s.id for s in house.spaces]
+        duct_system = duct_physics.DuctSystem(
+            supply=duct_physics.DuctSide(
+                rng.choice(places), rng.uniform(0.0, 0.2), rng.uniform(0.7, 2.0), rng.uniform(5, 30)
+            ),
+            returns=duct_physics.DuctSide(
+                rng.choice(places), rng.uniform(0.0, 0.2), rng.uniform(0.7, 2.0), rng.uniform(2, 15)
+            ),
+            air_flow_m3_per_s=rng.uniform(0.3, 0.8),
+            temperature_rise_k=rng.uniform(25.0, 40.0),
+        )
+        for k in range(rng.randint(0, 2)):
+            upgrades.append(
+                sysm.DuctSealingUpgrade(
+                    f"seal-{k}",
+                    supply_leakage_after=rng.choice([None, rng.uniform(0.0, 0.05)]),
+                    return_leakage_after=rng.uniform(0.0, 0.05),
+                    installed_cost=rng.uniform(200, 1500),
+                )
+            )
+        for k in range(rng.randint(0, 2)):
+            upgrades.append(
+                sysm.DuctInsulationUpgrade(
+                    f"wrap-{k}",
+                    supply_r_after=rng.uniform(1.0, 2.5),
+                    return_r_after=rng.choice([None, rng.uniform(1.0, 2.5)]),
+                    installed_cost=rng.uniform(200, 1500),
+                )
+            )
+    vent = None
+    elevation = None
+    if ventilation:
+        kind = rng.choice(["hrv", "erv", "exhaust", "supply"])
+        recovery = rng.uniform(0.5, 0.8) if kind in ("hrv", "erv") else 0.0
+        vent = vent_physics.MechanicalVentilation(kind, rng.uniform(0.01, 0.06), recovery)
+        elevation = rng.choice([None, rng.uniform(0.0, 2500.0)])
+    systems = sysm.Systems(
+        indoor_c=rng.uniform(19.0, 22.0),
+        heating_base_c=rng.uniform(12.0, 18.0),
+        season_outdoor_c=rng.choice([None, None, rng.uniform(-5.0, 8.0)]),
+        ducts=duct_system,
+        bins=bin_rows,
+        ventilation=vent,
+        air_heat_capacity=vent_physics.air_heat_capacity_si(elevation),
+        elevation_m=elevation,
+    )
+    return dataclasses.replace(house, surfaces=tuple(surfaces), systems=systems), upgrades

@@ -23,7 +23,7 @@ from server.services.bill_readers import BillRow
 from server.services.bills import ELECTRIC_FUELS, fit_bills_document, fuel_unit_and_energy
 from server.services.catalog import Catalog
 from server.services.house_bills import DEFAULT_FUEL
-from server.web.pages.compare import compare_context
+from server.web.pages.house_run import HouseRun, house_run
 
 #: a fresh table shows this many empty rows, a filled one one more to add a period
 EMPTY_ROWS_NEW, EMPTY_ROWS_MORE = 3, 1
@@ -63,15 +63,18 @@ def stored_fit(house: House) -> tuple[BillsResult | None, str]:
         return None, f"the stored bills no longer compute: {getattr(exc, 'message', exc)}"
 
 
-def house_calibration(house: House, catalog: Catalog) -> tuple[CalibrationFigures | None, str]:
-    """The house's modelled vs bills figures from its calculation (None with the reason)."""
+def house_calibration(
+    house: House, catalog: Catalog, run: HouseRun | None = None
+) -> tuple[CalibrationFigures | None, str]:
+    """The house's modelled vs bills figures from its calculation (``run``, the House page's
+    one, else the compare page's kept run), or None with the reason."""
     if not house.bills:
         return None, ""
-    ctx = compare_context(house=house, catalog=catalog, chosen=[])
-    result = ctx.get("result")
-    if result is None:
-        return None, f"the model cannot be computed yet ({ctx.get('error')})"
-    return result.calibration, ""
+    if run is None:
+        run = house_run(house=house, catalog=catalog)
+    if run.result is None:
+        return None, f"the model cannot be computed yet ({run.error})"
+    return run.result.calibration, ""
 
 
 def _n(value: float | None, digits: int) -> str:
@@ -170,9 +173,11 @@ def bills_context(
     degree_day_base: str = "",
     weather_kept: str = "",
     message: str = "",
+    run: HouseRun | None = None,
 ) -> dict[str, Any]:
     """The Bills section: the stored bills (or what was typed, ``rows`` with their messages,
-    the unread ``paste`` lines ``paste_rows``), the weather, and the stored bills' fit."""
+    the unread ``paste`` lines ``paste_rows``), the weather, and the stored bills' fit.
+    ``run``: the House page's one calculation (else the kept compare run is used)."""
     fuel, efficiency = heating_fuel(house)
     label, unit, _energy = fuel_unit_and_energy(fuel)
     weather = _weather(house)
@@ -182,7 +187,7 @@ def bills_context(
     fit, fit_error = stored_fit(house)
     calibration, calibration_error = (None, "")
     if fit is not None and catalog is not None:
-        calibration, calibration_error = house_calibration(house, catalog)
+        calibration, calibration_error = house_calibration(house, catalog, run)
     stored_base = weather.get("base", "")
     return {
         "bills_house": house,

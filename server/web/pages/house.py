@@ -10,9 +10,11 @@ from sqlalchemy.orm import Session
 from server.services import houses as svc
 from server.services.envelope import envelope_rows
 from server.services.firm_code_targets import rows_for
+from server.services.house_progress import house_facts, section_todo
 from server.services.library import catalog_for
 from server.services.typical import typical_assemblies
 from server.web.pages.bills import bills_context
+from server.web.pages.house_run import house_run
 from server.web.pages.settings import settings_context
 from server.web.pages.sharing import share_context
 from server.web.pages.spaces import spaces_context
@@ -22,6 +24,7 @@ from server.web.pages.systems import systems_context
 HOUSE_SECTIONS: tuple[tuple[str, str], ...] = (
     ("house", "House & systems"),
     ("envelope", "Envelope"),
+    ("air", "Air leakage"),
     ("bills", "Bills"),
     ("upgrades", "Upgrades"),
     ("share", "Share"),
@@ -46,15 +49,16 @@ def house_context(*, session: Session, organization_id: int, house_id: int) -> d
     share-links sections, and empty add-forms (a route puts a rejected form's text over them)."""
     house = svc.get_house(session=session, organization_id=organization_id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=organization_id)
+    run = house_run(house=house, catalog=catalog)  # the one calculation every section shows
     rows, total_ua, as_found = envelope_rows(  # calc/house's figures: behind, b, ground U
-        house, catalog, rows_for(session=session, organization_id=organization_id)
+        house, catalog, rows_for(session=session, organization_id=organization_id), found=run.found
     )
     return {
         **settings_context(house=house),
         **share_context(session=session, organization_id=organization_id, house=house),
-        **systems_context(house=house, catalog=catalog),
-        **bills_context(house=house, catalog=catalog),
-        **spaces_context(session=session, organization_id=organization_id, house=house),
+        **systems_context(house=house, catalog=catalog, run=run),
+        **bills_context(house=house, catalog=catalog, run=run),
+        **spaces_context(session=session, organization_id=organization_id, house=house, run=run),
         "house": house,
         "rows": rows,
         "total_ua": total_ua,
@@ -63,7 +67,7 @@ def house_context(*, session: Session, organization_id: int, house_id: int) -> d
         "kinds": svc.SURFACE_KINDS,
         "typicals": typical_assemblies(),
         "house_sections": HOUSE_SECTIONS,
-        "todo": {},
+        "todo": section_todo(house_facts(house, rows)),
         "form": {},
         "errors": {},
     }

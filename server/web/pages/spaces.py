@@ -18,10 +18,10 @@ from server.models import House
 from server.physics.buffer_spaces import space_temperature
 from server.physics.units import temp_from_c, temp_to_c
 from server.services import spaces as svc
-from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 from server.services.systems import indoor_c
+from server.web.pages.house_run import HouseRun, house_run
 
 #: the outdoor temperature a space's temperature is shown at when the house has no design
 #: temperature: freezing, where pipes in the space start to matter (common practice)
@@ -46,13 +46,13 @@ class SpaceView:
 
 
 def _result(
-    session: Session, organization_id: int, doc: HouseDocument
+    session: Session, organization_id: int, house: House, run: HouseRun | None
 ) -> tuple[HouseResult | None, str]:
-    try:
+    """The House page's one run (``run``, else computed here), or None with the reason."""
+    if run is None:
         catalog = catalog_for(session=session, organization_id=organization_id)
-        return compute_house(doc, catalog=catalog, upgrades_alone=False), ""
-    except InputError as exc:
-        return None, f"{exc.field}: {exc.message}"
+        run = house_run(house=house, catalog=catalog)
+    return run.result, "" if run.result is not None else run.error
 
 
 def _conditions(doc: HouseDocument) -> tuple[float, float, str]:
@@ -79,8 +79,11 @@ def spaces_context(
     errors: Mapping[str, str] | None = None,
     message: str = "",
     refused: bool = False,
+    run: HouseRun | None = None,
 ) -> dict[str, Any]:
     """The spaces with b and temperature as found, what faces each, and the forms.
+
+    ``run``: the House page's one calculation (computed here when not given, for htmx).
 
     ``space_id`` names the form ``typed`` and ``errors`` belong to (``"new"``: the add form);
     ``refused`` marks a delete refused because something still faces the space.
@@ -96,7 +99,7 @@ def spaces_context(
         problem = str(exc).splitlines()[0][:200]
     result = None
     if doc is not None and house.spaces:
-        result, problem = _result(session, organization_id, doc)
+        result, problem = _result(session, organization_id, house, run)
     figures = {f.id: f for f in result.as_found.spaces} if result is not None else {}
     inside, outside, conditions = _conditions(doc) if doc is not None else (0.0, 0.0, "")
     sign = "°F" if units == "ip" else "°C"

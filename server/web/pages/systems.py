@@ -17,19 +17,31 @@ from server.services.catalog import Catalog
 from server.services.house import OVERSIZED_RATIO, compute_house
 from server.services.house_document import house_document
 from server.services.system_sections import resnet_default
+from server.web.pages.house_run import HouseRun, house_run
 from server.web.systems_forms import CARDS, card_values, choices_for, location_choices
 
 #: the start of the sentence compute_house adds to a package that oversizes the equipment
 OVERSIZED_WORDS = "after this package the heating equipment's output"
 
 
-def _result(house: House, catalog: Catalog | None) -> tuple[HouseResult | None, str]:
+def _result(
+    house: House, catalog: Catalog | None, run: HouseRun | None
+) -> tuple[HouseResult | None, str]:
+    """The page's one run (``run``, else computed here), or None with what to do."""
     if not any(s.kind != "pipe_run" for s in house.surfaces):
         return None, "Add the envelope's surfaces (below) to see the design heat loss."
-    try:
-        return compute_house(house_document(house), catalog=catalog, upgrades_alone=False), ""
-    except InputError as exc:
-        return None, f"The house cannot be computed yet: {exc.message} ({exc.field})."
+    if run is None and catalog is not None:
+        run = house_run(house=house, catalog=catalog)
+    if run is None:
+        try:
+            return compute_house(house_document(house), catalog=catalog, upgrades_alone=False), ""
+        except InputError as exc:
+            return None, f"The house cannot be computed yet: {exc.message} ({exc.field})."
+    if run.result is None:
+        return None, f"The house cannot be computed yet: {run.error}."
+    if not run.with_packages:
+        return run.result, f"As found only: the saved packages cannot be computed ({run.error})."
+    return run.result, ""
 
 
 def _design(house: House, result: HouseResult | None) -> dict[str, Any]:
@@ -143,11 +155,15 @@ def systems_context(
     typed: Mapping[str, str] | None = None,
     errors: Mapping[str, str] | None = None,
     message: str = "",
+    run: HouseRun | None = None,
 ) -> dict[str, Any]:
     """Each systems card with its values (for ``card`` what was typed and its ``errors``),
-    the design load as found and per package, and a sentence of figures under each card."""
+    the design load as found and per package, and a sentence of figures under each card.
+
+    ``run``: the House page's one calculation (computed here when not given, for a card's
+    htmx answer)."""
     locations = location_choices(house)
-    result, reason = _result(house, catalog)
+    result, reason = _result(house, catalog, run)
     notes = _notes(house, result)
     hints = _placeholders(house, result)
     cards = []
@@ -163,5 +179,5 @@ def systems_context(
             "collapsed": key == "heat_pump" and (house.heating or {}).get("fuel") != "heat_pump"
             and not (house.heating or {}).get("heat_pump") and key != card,
         })  # fmt: skip
-    return {"sys_cards": cards, "sys_message": message, "sys_design": _design(house, result),
+    return {"sys_cards": cards, "sys_message": message, "sys_card": card, "sys_design": _design(house, result),
             "sys_reason": reason, "sys_warnings": [] if result is None else result.warnings}  # fmt: skip

@@ -19,12 +19,14 @@ from server.services.house_sections import (
     save_house_section,
     set_climate_from_weather,
 )
+from server.services.library import catalog_for
 from server.services.number_text import NumberTextError, read_decimal
 from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep
 from server.web.forms import form_version
 from server.web.pages.house import house_context
 from server.web.pages.settings import settings_context
+from server.web.pages.systems import systems_context
 from server.web.render import is_htmx, page_or_fragment
 from server.web.settings_forms import COLUMNS, SECTIONS, parse_section
 
@@ -38,10 +40,15 @@ def _respond(request: Request, session: Session, org: Organization, house: House
              ctx: dict[str, Any], status: int) -> Response:  # fmt: skip
     """htmx: the section alone; a saved form: back to the House page; a rejected one: the whole
     House page with the section's messages and what was typed."""
+    air = ctx.get("settings_section") == "air_leakage"  # its own block, with the N-factor card
     if status == 200 and not is_htmx(request):
-        return RedirectResponse(f"/houses/{house.id}#settings", status_code=303)
+        return RedirectResponse(f"/houses/{house.id}#{'air' if air else 'settings'}", 303)
+    if air and is_htmx(request):
+        catalog = catalog_for(session=session, organization_id=org.id)
+        ctx = {**systems_context(house=house, catalog=catalog), **ctx}
     return page_or_fragment(
-        request, page="pages/house.html", fragment="partials/house_settings.html", context=ctx,
+        request, page="pages/house.html", context=ctx,
+        fragment="partials/house_air.html" if air else "partials/house_settings.html",
         page_context=lambda: house_context(session=session, organization_id=org.id, house_id=house.id),
         status_code=status,
     )  # fmt: skip

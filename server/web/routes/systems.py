@@ -29,11 +29,15 @@ def _respond(request: Request, session: Session, org: Organization, house: House
              ctx: dict[str, Any], status: int) -> Response:  # fmt: skip
     """htmx: the section (and the settings block, whose forms carry the house version);
     a saved form: back to the House page; a rejected one: the whole page, messages beside."""
+    air = ctx.get("sys_card") == "n_factor"  # the Air leakage block holds the N-factor card
     if status == 200 and not is_htmx(request):
-        return RedirectResponse(f"/houses/{house.id}#systems", status_code=303)
+        return RedirectResponse(f"/houses/{house.id}#{'air' if air else 'systems'}", 303)
+    # every other card on the page takes the new version from data-house-version (app.js);
+    # the settings block still comes out of band with a systems card (tests/web/test_systems)
     return page_or_fragment(
-        request, page="pages/house.html", fragment="partials/house_systems_swap.html",
-        context={**settings_context(house=house), "house": house, "settings_oob": True, **ctx},
+        request, page="pages/house.html",
+        fragment="partials/house_air.html" if air else "partials/house_systems_swap.html",
+        context={**settings_context(house=house), "house": house, "settings_oob": not air, **ctx},
         page_context=lambda: house_context(session=session, organization_id=org.id, house_id=house.id),
         status_code=status,
     )  # fmt: skip
@@ -70,5 +74,7 @@ def save_card(
         ctx = systems_context(house=house, catalog=catalog, card=card, typed=data, errors=errors,
                               message="Not saved: check the marked fields.")  # fmt: skip
     else:
-        ctx = systems_context(house=house, catalog=catalog, message=f"{CARDS[card][0]} saved.")
+        ctx = systems_context(
+            house=house, catalog=catalog, card=card, message=f"{CARDS[card][0]} saved."
+        )
     return _respond(request, session, org, house, ctx, status)
