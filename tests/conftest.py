@@ -321,3 +321,9 @@ def signed_in(browser, live_server: str) -> dict:  # type: ignore[no-untyped-def
 def shot_dir() -> Path:
     ARTIFACTS.mkdir(exist_ok=True)
     return ARTIFACTS
+
+
+def unfold(details) -> None:  # type: ignore[no-untyped-def]
+    """Open a folded House page section (a <details>) the way a person does: tap its summary."""
+    if details.get_attribute("open") is None:
+        details.locator("summary").first.click()

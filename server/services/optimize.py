@@ -37,7 +37,6 @@ from server.physics import house_model as model
 from server.physics import optimize as search
 from server.physics.units import from_si
 from server.physics.variants import Variants, unsupported
-from server.services.catalog import Catalog
 from server.services.house_figures import _option
 
 OBJECTIVE_WORDS = {
@@ -45,17 +44,6 @@ OBJECTIVE_WORDS = {
     "annual_savings": "first-year savings at today's prices",
     "co2": "CO2 avoided per year (kg)",
 }
-
-
-def model_of_document(
-    doc: HouseDocument, *, catalog: Catalog | None = None
-) -> tuple[model.House, list[model.Upgrade]]:
-    """The pure house (windows' sun included) and upgrades of a document, as
-    ``compute_house`` builds them."""
-    from server.services.house import model_of_document as build  # house imports this module
-
-    house, upgrades, _warnings = build(doc, catalog=catalog)
-    return house, upgrades
 
 
 def attach_optimum(

@@ -23,7 +23,7 @@ from playwright.sync_api import expect
 from sqlalchemy import create_engine, text
 
 from server.services.demo import DEMO_LABEL
-from tests.conftest import log_in
+from tests.conftest import log_in, unfold
 
 pytestmark = pytest.mark.browser
 
@@ -116,6 +116,7 @@ def test_offline_reload_add_surface_change_layer_then_sync_in_order(  # type: ig
     expect(page.locator("h1")).to_contain_text("Offline check")
     expect(page.locator("#net-status")).to_contain_text("No connection")
 
+    unfold(page.locator("details.add-surface"))
     page.locator("#qa-rim-2x10-empty").fill("250")
     page.locator("form.quick-item", has=page.locator("#qa-rim-2x10-empty")).get_by_role(
         "button", name="Add"

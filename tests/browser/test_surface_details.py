@@ -16,6 +16,8 @@ import re
 
 import pytest
 
+from tests.conftest import unfold
+
 pytestmark = pytest.mark.browser
 
 
@@ -25,6 +27,7 @@ def _row(page, name: str) -> str:  # type: ignore[no-untyped-def]
 
 def _add(page, base: str, house_url: str, kind: str, name: str, area: str) -> None:  # type: ignore[no-untyped-def]
     page.goto(house_url)
+    unfold(page.locator("details.add-surface"))
     page.locator("#kind").select_option(kind)
     page.locator("#name").fill(name)
     page.locator("#area").fill(area)

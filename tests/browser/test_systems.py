@@ -7,6 +7,8 @@ import re
 
 import pytest
 
+from tests.conftest import unfold
+
 pytestmark = pytest.mark.browser
 
 
@@ -20,6 +22,7 @@ def test_card_saves_in_place_and_keeps_settings_current(
         url = page.url.split("#")[0]
         before = page.locator("#settings input[name=version]").first.get_attribute("value")
         card = page.locator("#card-design")
+        unfold(card.locator("details").first)
         capacity = card.get_by_label(re.compile("Heating equipment output"))
         typed = capacity.input_value() or "88000"
         capacity.fill(typed)
@@ -30,6 +33,7 @@ def test_card_saves_in_place_and_keeps_settings_current(
         assert after is not None and before is not None and int(after) > int(before)
         # the settings block (swapped out of band) now carries the new version: no conflict
         settings = page.locator("#settings form").filter(has_text="Heating system")
+        unfold(settings.locator("details").first)
         settings.get_by_role("button", name=re.compile("Save heating system")).click()
         page.get_by_role("status").filter(has_text="Heating system saved.").wait_for()
         assert "Someone else saved" not in page.content()

@@ -19,8 +19,8 @@ from server.physics import degree_days as dd
 from server.physics import house_model as model
 from server.physics import optimize as opt
 from server.physics.variants import Variants
-from server.services.optimize import model_of_document
 from tests.utils import tmy3
+from tests.utils.house_models import model_of_document
 from tests.utils.houses import big_house_document
 from tests.utils.random_houses import random_house
 

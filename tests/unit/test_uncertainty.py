@@ -19,7 +19,7 @@ from server.documents.house import HouseDocument
 from server.physics import economics
 from server.physics import uncertainty as mc
 from server.physics.variants import Variants
-from server.services.optimize import model_of_document
+from tests.utils.house_models import model_of_document
 from tests.utils.houses import big_house_document
 
 WALL = {

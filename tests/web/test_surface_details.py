@@ -102,7 +102,8 @@ def test_slab_ground_inputs_si_match_calc_ground_and_the_hand_worked_case(
     assert "ground U 0.42 W/(m²·K)" in page  # 0.41529 at the page's two decimals
     table = client.get(house).text
     row = re.search(r"Slab on ground</a>.*?</tr>", table, re.S)
-    assert row and ">Ground<" in row.group(0) and ">0.42<" in row.group(0)
+    # the "Behind it" cell names the ground and carries its ISO 13370 U beneath
+    assert row and ">Ground<span" in row.group(0) and ">U 0.42 (ISO 13370)<" in row.group(0)
     assert "41.5" in row.group(0)  # UA = 100 × 0.41529 W/K
 
 
@@ -203,7 +204,8 @@ def test_surface_facing_a_space_gets_its_b(app, client: TestClient) -> None:  # 
     assert math.isclose(figures["ua"], 0.6 * figures["u"] * 500, rel_tol=1e-9)
     table = client.get(house).text
     row = re.search(r"Floor over unheated space</a>.*?</tr>", table, re.S)
-    assert row and ">Crawlspace<" in row.group(0) and ">0.60<" in row.group(0)
+    # the "Behind it" cell names the space and carries its b beneath
+    assert row and ">Crawlspace<span" in row.group(0) and ">b 0.60<" in row.group(0)
     assert "b 0.60 (behind it: Crawlspace)" in client.get(floor).text
 
 
