@@ -114,7 +114,11 @@ class SecurityMiddleware:
                 headers = MutableHeaders(scope=message)
                 for name, value in security_headers(path):
                     headers[name] = value
-                if not static and (force_no_store or "cache-control" not in headers):
+                # a signed-in response is never stored, except one its route marked "private"
+                # (a photo's image: the browser alone keeps it; sign-out clears that cache)
+                private = headers.get("cache-control", "").startswith("private")
+                unset = "cache-control" not in headers
+                if not static and ((force_no_store and not private) or unset):
                     headers["Cache-Control"] = "no-store"
                 already = {v.split("=", 1)[0].strip() for v in headers.getlist("set-cookie")}
                 for name, header in new_cookies:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import importlib.util
 import os
+import shutil
 import sqlite3
 import sys
 import time
@@ -128,14 +129,37 @@ def _copy(source: sqlite3.Connection, target: sqlite3.Connection) -> None:
     source.backup(target, pages=-1)
 
 
-def backup(dest: Path, *, database_url: str | None = None) -> str:
-    """Copy the live SQLite database to ``dest`` (a new file). Returns a one-line summary."""
+def photos_beside(backup_file: Path) -> Path:
+    """Where a backup keeps its photos: the directory ``<backup file>-photos`` beside it."""
+    return backup_file.with_name(backup_file.name + "-photos")
+
+
+def photo_root(database_url: str | None = None, photo_dir: Path | None = None) -> Path:
+    """The photo directory of the database backed up or restored: ``photo_dir``, else
+    ``WARMSTEAD_PHOTO_DIR``, else ``photos`` beside the SQLite file (as the app finds it)."""
+    if photo_dir is not None:
+        return photo_dir
+    configured = get_settings().photo_dir
+    return configured if configured is not None else sqlite_file(database_url).parent / "photos"
+
+
+def backup(dest: Path, *, database_url: str | None = None, photo_dir: Path | None = None) -> str:
+    """Copy the live SQLite database to ``dest`` (a new file) and its photos to
+    ``<dest>-photos/`` (:func:`photos_beside`). Returns a one-line summary.
+
+    Photo files never change once written (a new photo has a new name), so the photos are
+    copied before the database's snapshot and once more after it (only files not yet copied):
+    every photo of the snapshot has its file in the copy, and files of photos the snapshot does
+    not hold are left out."""
     path = sqlite_file(database_url)
     if not path.exists():
         raise CommandError(f"there is no database at {path} (run warmstead migrate first)")
-    if dest.exists():
+    if dest.exists() or photos_beside(dest).exists():
         raise CommandError(f"{dest} exists already: choose a new file name")
     dest.parent.mkdir(parents=True, exist_ok=True)
+    photos_from = photo_root(database_url, photo_dir)
+    photos_partial = dest.with_name(f".{dest.name}-photos.partial-{os.getpid()}")
+    _copy_new_files(photos_from, photos_partial)
     partial = dest.with_name(f".{dest.name}.partial-{os.getpid()}")
     source = sqlite3.connect(path, timeout=30)
     target = sqlite3.connect(partial)
@@ -149,17 +173,70 @@ def backup(dest: Path, *, database_url: str | None = None) -> str:
         source.close()
     if verdict != "ok":
         partial.unlink(missing_ok=True)
+        shutil.rmtree(photos_partial, ignore_errors=True)
         raise CommandError(f"the copy failed its integrity check ({verdict}); nothing written")
+    _copy_new_files(photos_from, photos_partial)  # those added while the snapshot was taken
+    photos = _keep_only(photos_partial, _photo_files(partial))
     with open(partial, "rb") as handle:
         os.fsync(handle.fileno())
+    os.replace(photos_partial, photos_beside(dest))
     os.replace(partial, dest)
     _fsync_dir(dest.parent)
     size_mb = dest.stat().st_size / 1e6
-    return f"backup written: {dest} ({size_mb:.2f} MB, {houses} houses, integrity ok)"
+    return (f"backup written: {dest} ({size_mb:.2f} MB, {houses} houses, integrity ok) and "
+            f"{photos} photos in {photos_beside(dest)}")  # fmt: skip
 
 
-def restore(source_file: Path, *, database_url: str | None = None, force: bool = False) -> str:
-    """Write a backup over the configured SQLite database (through the backup API)."""
+def _copy_new_files(source: Path, target: Path) -> None:
+    """Copy each file under ``source`` that ``target`` does not hold yet (flushed to disk)."""
+    target.mkdir(parents=True, exist_ok=True)
+    if not source.is_dir():
+        return
+    for item in sorted(source.rglob("*")):
+        if not item.is_file() or item.name.startswith("."):  # a file being written: not yet
+            continue
+        copy = target / item.relative_to(source)
+        if copy.exists():
+            continue
+        copy.parent.mkdir(parents=True, exist_ok=True)
+        shutil.copy2(item, copy)
+        with open(copy, "rb") as handle:
+            os.fsync(handle.fileno())
+
+
+def _photo_files(database: Path) -> set[str] | None:
+    """The relative paths of the photo files a database's rows name (None: no photos table)."""
+    connection = sqlite3.connect(f"{database.resolve().as_uri()}?mode=ro", uri=True)
+    try:
+        rows = connection.execute(
+            "SELECT organization_id, house_id, storage_key, content_type FROM photos"
+        ).fetchall()
+    except sqlite3.OperationalError:
+        return None
+    finally:
+        connection.close()
+    ext = {"image/jpeg": "jpg", "image/png": "png"}
+    return {f"{org}/{house}/{key}.{ext.get(kind, 'jpg')}" for org, house, key, kind in rows}
+
+
+def _keep_only(directory: Path, wanted: set[str] | None) -> int:
+    """Remove the files under ``directory`` not in ``wanted``; the number of files kept."""
+    kept = 0
+    for item in sorted(directory.rglob("*"), reverse=True):
+        if item.is_file():
+            if wanted is not None and item.relative_to(directory).as_posix() not in wanted:
+                item.unlink()
+            else:
+                kept += 1
+        elif item.is_dir() and not any(item.iterdir()):
+            item.rmdir()
+    return kept
+
+
+def restore(source_file: Path, *, database_url: str | None = None, force: bool = False,
+            photo_dir: Path | None = None) -> str:  # fmt: skip
+    """Write a backup over the configured SQLite database (through the backup API), and its
+    photos (``<backup>-photos/``, when the backup has them) in place of the photo directory."""
     path = sqlite_file(database_url)
     if not source_file.is_file():
         raise CommandError(f"there is no backup file at {source_file}")
@@ -193,7 +270,27 @@ def restore(source_file: Path, *, database_url: str | None = None, force: bool =
         source.close()
     if verdict != "ok":
         raise CommandError(f"the restored database fails its integrity check ({verdict})")
-    return f"restored {source_file} into {path} ({houses} houses, integrity ok)"
+    saved_photos = photos_beside(source_file)
+    if not saved_photos.is_dir():
+        return (f"restored {source_file} into {path} ({houses} houses, integrity ok); the "
+                f"backup has no {saved_photos.name}, so the photo directory was left as it is")  # fmt: skip
+    photos = _put_photos_back(saved_photos, photo_root(database_url, photo_dir))
+    return f"restored {source_file} into {path} ({houses} houses, integrity ok) and {photos} photos"
+
+
+def _put_photos_back(saved: Path, root: Path) -> int:
+    """Copy ``saved`` beside ``root``, then swap it in by renames (the old one removed last)."""
+    root.parent.mkdir(parents=True, exist_ok=True)
+    incoming = root.with_name(f".{root.name}.restore-{os.getpid()}")
+    outgoing = root.with_name(f".{root.name}.old-{os.getpid()}")
+    shutil.rmtree(incoming, ignore_errors=True)
+    _copy_new_files(saved, incoming)
+    if root.exists():
+        os.replace(root, outgoing)
+    os.replace(incoming, root)
+    _fsync_dir(root.parent)
+    shutil.rmtree(outgoing, ignore_errors=True)
+    return sum(1 for item in root.rglob("*") if item.is_file())
 
 
 def _side_files(path: Path) -> list[Path]:
@@ -251,10 +348,18 @@ def main(argv: list[str] | None = None) -> int:
     p_serve.add_argument("--workers", type=int, default=settings.workers)
     sub.add_parser("migrate", help="create or upgrade the database schema and the built-in library")
     sub.add_parser("demo", help="load the demo house")
-    p_backup = sub.add_parser("backup", help="copy the SQLite database to a new file, live")
-    p_backup.add_argument("dest", type=Path, help="the backup file to write (must not exist)")
+    p_backup = sub.add_parser(
+        "backup", help="copy the SQLite database to a new file, live, and its photos beside it"
+    )
+    p_backup.add_argument(
+        "dest",
+        type=Path,
+        help="the backup file to write (must not exist); photos go to DEST-photos/",
+    )
     p_restore = sub.add_parser("restore", help="put a backup in place of the SQLite database")
-    p_restore.add_argument("src", type=Path, help="a file written by warmstead backup")
+    p_restore.add_argument(
+        "src", type=Path, help="a file written by warmstead backup (its SRC-photos/ too)"
+    )
     p_restore.add_argument(
         "--force", action="store_true", help="restore although the database looks in use"
     )

@@ -114,6 +114,12 @@ class Settings(BaseSettings):
     db_pool_size: int = 10
     #: the largest request body taken [bytes]; larger ones get 413
     max_body_bytes: int = 25 * 1024 * 1024
+    #: where photos are kept (files, outside the database); unset: see :meth:`photo_path`
+    photo_dir: Path | None = None
+    #: the largest photo file taken per upload [bytes]
+    photo_max_bytes: int = 10 * 1024 * 1024
+    #: the most all of one house's stored photos may take together [bytes]
+    house_photo_max_bytes: int = 200 * 1024 * 1024
 
     def secret_key_path(self) -> Path:
         """``secret_key_file`` when set; else ``secret_key`` beside a SQLite database file;
@@ -130,6 +136,27 @@ class Settings(BaseSettings):
         if url.get_backend_name() == "sqlite" and url.database not in (None, "", ":memory:"):
             return Path(url.database).parent / "secret_key"
         return DEFAULT_SECRET_KEY_FILE
+
+    def photo_path(self) -> Path:
+        """``photo_dir`` when set; else ``photos`` beside a SQLite database file (``var/photos``
+        for the default database); else (PostgreSQL, in-memory SQLite) ``var/photos`` under the
+        project root."""
+        if self.photo_dir is not None:
+            return self.photo_dir
+        beside = self._sqlite_directory()
+        return (beside if beside is not None else ROOT / "var") / "photos"
+
+    def _sqlite_directory(self) -> Path | None:
+        from sqlalchemy.engine import make_url
+        from sqlalchemy.exc import ArgumentError
+
+        try:
+            url = make_url(self.database_url)
+        except ArgumentError:
+            return None
+        if url.get_backend_name() == "sqlite" and url.database not in (None, "", ":memory:"):
+            return Path(url.database).parent
+        return None
 
     @model_validator(mode="after")
     def _check(self) -> Settings:

@@ -321,3 +321,32 @@ class IdempotencyKey(Base):
     location: Mapped[str] = mapped_column(String(500))
     created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)
     expires_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), index=True)
+
+
+class Photo(Base):
+    """A photo of what the auditor found, of the house or one of its surfaces.
+
+    The image is a file in the photo directory (:mod:`server.services.photo_store`), named by
+    ``storage_key`` (random, never the uploaded file's name), re-encoded from its pixels so it
+    carries no EXIF, GPS or other metadata. A deleted surface's photos stay with the house.
+    """
+
+    __tablename__ = "photos"
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    organization_id: Mapped[int] = mapped_column(
+        ForeignKey("organizations.id", ondelete="CASCADE"), index=True
+    )
+    house_id: Mapped[int] = mapped_column(ForeignKey("houses.id", ondelete="CASCADE"), index=True)
+    surface_id: Mapped[int | None] = mapped_column(
+        ForeignKey("surfaces.id", ondelete="SET NULL"), index=True
+    )
+    caption: Mapped[str] = mapped_column(String(200), default="")
+    storage_key: Mapped[str] = mapped_column(String(64), unique=True)
+    content_type: Mapped[str] = mapped_column(String(40))  # image/jpeg | image/png
+    width: Mapped[int] = mapped_column(Integer)
+    height: Mapped[int] = mapped_column(Integer)
+    bytes: Mapped[int] = mapped_column(Integer)
+    show_on_share: Mapped[bool] = mapped_column(Boolean, default=False)
+    include_in_quote: Mapped[bool] = mapped_column(Boolean, default=False)
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True), default=utcnow)

@@ -23,6 +23,7 @@ var SHELL_URLS = [
   "/static/app.js",
   "/static/offline.js",
   "/static/offline-outbox.js",
+  "/static/photos.js",
   "/static/vendor/htmx-2.0.11.min.js",
   "/offline"
 ];

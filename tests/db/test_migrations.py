@@ -28,6 +28,7 @@ TABLES = {
     "code_targets",
     "revoked_sessions",
     "idempotency_keys",
+    "photos",
 }
 
 
