@@ -1,8 +1,11 @@
 """The Quote page for one package (templates/pages/quote.html): scope, quantities, price,
-rebates, payback, financing, cautions.
+rebates, payback, financing, the savings range, the design load, cautions.
 
 Every figure is the package's (or each upgrade alone's) entry of the same
-:func:`server.services.house.compute_house` result the compare page and the API show.
+:func:`server.services.comparison.compute_house` result the compare page and the API show, with
+the compare page's ranges (:data:`server.web.pages.compare.PAGE_UNCERTAINTY`). With bills the
+quote leads with the calibrated figures, the modelled ones beside; the sentences about them
+come from :mod:`server.services.plain_words`.
 """
 
 from __future__ import annotations
@@ -13,16 +16,20 @@ from typing import Any
 
 from sqlalchemy.orm import Session
 
-from server.documents.house import HouseDocument, HouseResult
+from server.documents.house import HouseDocument, HouseResult, OptionFigures
 from server.errors import InputError
 from server.models import House, Organization, PriceBookItem
 from server.services import houses as svc
+from server.services import plain_words as words
 from server.services import price_book as book
 from server.services.cautions import GENERAL, cautions_for
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
+from server.services.photos import quote_photos
 from server.web.formatting import UNIT_LABELS, money
+from server.web.pages.compare import PAGE_UNCERTAINTY
+from server.web.pages.systems import OVERSIZED_WORDS
 
 
 def quote_reference(house: House, package_slug: str) -> str:
@@ -98,6 +105,19 @@ def _scope_line(slug: str, doc: HouseDocument, house: House, result: HouseResult
     return line
 
 
+def _design(
+    doc: HouseDocument, result: HouseResult, package: OptionFigures, oversized: str
+) -> dict[str, Any] | None:
+    """Design heat loss as found and after the package against the equipment's output (None
+    without a design temperature); ``oversized``: the House page's sentence, when it applies."""
+    if result.as_found.design_heat_loss is None:
+        return None
+    return {"as_found": result.as_found.design_heat_loss, "after": package.design_heat_loss,
+            "capacity": doc.heating.output_capacity, "ratio_before": result.as_found.capacity_ratio,
+            "ratio_after": package.capacity_ratio, "unit": "Btu/h" if doc.units == "ip" else "W",
+            "oversized": words.sentence_case(oversized)}  # fmt: skip
+
+
 def quote_context(
     *,
     session: Session,
@@ -114,9 +134,10 @@ def quote_context(
     base = {"house": house, "org": org, "today": date.today().strftime("%d %B %Y"),
             "reference": quote_reference(house, package_slug), "general_caution": GENERAL,
             "fill_error": fill_error or None}  # fmt: skip
+    base["quote_photos"] = quote_photos(session=session, house=house)  # include_in_quote ones
     catalog = catalog_for(session=session, organization_id=org.id)
     try:
-        doc = house_document(house)
+        doc = house_document(house, uncertainty=PAGE_UNCERTAINTY)
         result = compute_house(doc, catalog=catalog)
     except InputError as exc:
         return {**base, "error": f"{exc.field}: {exc.message}", "result": None}
@@ -129,6 +150,7 @@ def quote_context(
     topics = tuple(t for t, k in (("air_sealing", "air_sealing"), ("pipes", "pipe_insulation"))
                    if any(line["kind"] == k for line in lines))  # fmt: skip
     econ = doc.economics
+    oversized = next((w for w in package.warnings if w.startswith(OVERSIZED_WORDS)), "")
     return {
         **base,
         "error": None,
@@ -137,6 +159,13 @@ def quote_context(
         "lines": lines,
         "example_prices": any(line["example_price"] for line in lines),
         "econ": econ,
+        "lead": words.lead_figures(result, package),
+        "basis_sentence": words.calibration_sentence(result),
+        "range_sentence": words.range_sentence(package),
+        "pays_back_sentence": words.pays_back_sentence(package, years=econ.years),
+        "no_range_sentence": words.no_range_sentence(result),
+        "design": _design(doc, result, package, oversized),
+        "notes": [w for w in package.warnings if w != oversized] + list(result.warnings),
         "climate": doc.climate,
         "heating": doc.heating,
         "cautions": cautions_for(kinds, extra_topics=topics),
