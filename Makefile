@@ -7,6 +7,9 @@ HOST   ?= 127.0.0.1
 ## one worker per core, at most 4 (see README: several app processes)
 WORKERS ?= $(shell n=$$(nproc 2>/dev/null || echo 1); [ $$n -gt 4 ] && n=4; echo $$n)
 STAMP  := $(VENV)/.installed
+## test processes (pytest-xdist): one per core, at most 4; each has its own SQLite files,
+## PostgreSQL schema and live server
+TEST_WORKERS ?= $(WORKERS)
 
 .PHONY: run test install migrate demo browser lint bench clean
 
@@ -53,7 +56,7 @@ test: $(STAMP) browser
 	$(BIN)/ruff check .
 	$(BIN)/ruff format --check .
 	$(BIN)/mypy
-	$(BIN)/python -m pytest --doctest-modules tests server/physics \
+	$(BIN)/python -m pytest --doctest-modules tests server/physics -n $(TEST_WORKERS) \
 	  --cov=server --cov-report=term:skip-covered --cov-fail-under=$(COVERAGE_FLOOR)
 
 ## make bench: the core's in-process timings (bench_core), loopback load test (compare page,

@@ -42,8 +42,8 @@ def _median_ms(work: Callable[[], Any], repeat: int) -> float:
 def measure(repeat: int) -> dict[str, float]:
     """The core's figures [ms, bytes] for the load-test house, in this process's tree."""
     from server.documents.house import HouseDocument
-    from server.services import house as service
-    from server.services.house import compute_house
+    from server.services import comparison as service
+    from server.services.comparison import compute_house
     from tests.utils.houses import big_house_document
 
     body = big_house_document(surfaces=40, upgrades_per_surface=5, packages=6)

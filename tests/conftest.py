@@ -126,8 +126,10 @@ def db_url(request: pytest.FixtureRequest, tmp_path: Path) -> Iterator[str]:
 
 
 @pytest.fixture
-def app(db_url: str):  # type: ignore[no-untyped-def]
-    application = create_app(Settings(environment="test", database_url=db_url))
+def app(db_url: str, tmp_path: Path):  # type: ignore[no-untyped-def]
+    # photos in the test's own directory (on PostgreSQL the default is var/photos of the project)
+    application = create_app(Settings(environment="test", database_url=db_url,
+                                      photo_dir=tmp_path / "photos"))  # fmt: skip
     on_loop = statements_on_the_event_loop(application.state.engine)
     yield application
     application.state.engine.dispose()

@@ -42,11 +42,11 @@ class Films:
 
 
 # ASHRAE [1], IP values: inside still air by direction; outside 15 mph wind (any direction).
-_ASHRAE_INSIDE_IP = {"horizontal": 0.68, "up": 0.61, "down": 0.92}
-_ASHRAE_OUTSIDE_IP = 0.17
+_ASHRAE_INSIDE_HFT2F_BTU = {"horizontal": 0.68, "up": 0.61, "down": 0.92}
+_ASHRAE_OUTSIDE_HFT2F_BTU = 0.17
 # ISO 6946 [2], SI values: Rsi by direction, Rse for all directions.
-_ISO_INSIDE_SI = {"horizontal": 0.13, "up": 0.10, "down": 0.17}
-_ISO_OUTSIDE_SI = 0.04
+_ISO_INSIDE_M2K_W = {"horizontal": 0.13, "up": 0.10, "down": 0.17}
+_ISO_OUTSIDE_M2K_W = 0.04
 
 
 def surface_films(film_set: FilmSet, heat_flow: HeatFlow, outside: OutsideFilm = "wind") -> Films:
@@ -72,17 +72,19 @@ def surface_films(film_set: FilmSet, heat_flow: HeatFlow, outside: OutsideFilm =
     Films
         ``inside_r_m2k_w`` and ``outside_r_m2k_w`` [m²·K/W].
     """
-    if heat_flow not in _ISO_INSIDE_SI:
+    if heat_flow not in _ISO_INSIDE_M2K_W:
         raise ValueError("heat flow must be horizontal, up or down")
     if outside not in ("wind", "still_air"):
         raise ValueError("the outside film must be wind or still_air")
     still = outside == "still_air"
     if film_set == "ashrae":
-        inside_ip = _ASHRAE_INSIDE_IP[heat_flow]
-        return Films(r_ip_to_si(inside_ip), r_ip_to_si(inside_ip if still else _ASHRAE_OUTSIDE_IP))
+        inside_ip_r = _ASHRAE_INSIDE_HFT2F_BTU[heat_flow]
+        return Films(
+            r_ip_to_si(inside_ip_r), r_ip_to_si(inside_ip_r if still else _ASHRAE_OUTSIDE_HFT2F_BTU)
+        )
     if film_set == "iso6946":
-        inside_si = _ISO_INSIDE_SI[heat_flow]
-        return Films(inside_si, inside_si if still else _ISO_OUTSIDE_SI)
+        inside = _ISO_INSIDE_M2K_W[heat_flow]
+        return Films(inside, inside if still else _ISO_OUTSIDE_M2K_W)
     if film_set == "none":
         return Films(0.0, 0.0)
     raise ValueError("films must be ashrae, iso6946 or none")

@@ -90,463 +90,50 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import TYPE_CHECKING
 
 import numpy as np
 
-if TYPE_CHECKING:  # scipy is imported where a solve needs it: it adds ~50 MB to every worker
-    from scipy.optimize import Bounds, LinearConstraint
+from server.physics.optimize_by_model import MAX_MODEL_ENUMERATION, best_package_by_model
+from server.physics.optimize_frontier import enumerate_sets, merged_frontier, pareto
+from server.physics.optimize_load import Piece, convex_on_range, load_pieces
+from server.physics.optimize_milp import Solver, linear_model, relaxed_value
+from server.physics.optimize_results import (
+    FRONTIER_LIMIT,
+    MAX_ENUMERATION,
+    METHOD_WORDS,
+    OBJECTIVES,
+    RESOLUTION,
+    TOLERANCE,
+    Candidate,
+    Optimum,
+    candidate,
+    capped_words,
+    cost_step,
+    objective_values,
+    spread_words,
+    within_budget,
+)
+from server.physics.variants import Variants
 
-from server.physics import energy
-from server.physics import house_model as model
-from server.physics.fuels import KWH_J
-from server.physics.units import BTU_J, HOUR_S
-from server.physics.variants import Figures, FloatArray, IntArray, Variants
-
-OBJECTIVES = ("npv", "annual_savings", "co2")
-#: most sets evaluated one by one when the MILP's assumptions fail
-MAX_ENUMERATION = 100_000
-#: most frontier points listed
-FRONTIER_LIMIT = 200
-#: relative tolerance of the budget and of ties [-]
-TOLERANCE = 1e-9
-#: net costs closer than this share of the cost spread (Σ over groups of the largest minus
-#: the smallest option's net cost) are not told apart by the MILP: HiGHS accepts x within 1e-6
-#: of integral, so a nearly integral point can seem up to 1e-6 of the spread cheaper [2]
-RESOLUTION = 2e-6
-METHOD_WORDS = {
-    "milp": "mixed-integer linear programme (HiGHS), exact: the optimum is proven",
-    "milp_piecewise": "mixed-integer linear programme with the heating load modelled piece by "
-    "piece (HiGHS), exact: the optimum is proven",
-    "enumeration": "every allowed set evaluated, exact",
-    "milp_bound": "mixed-integer linear programme on an optimistic bound (HiGHS): the best set "
-    "found, not proven optimal",
-}
-
-
-@dataclass(frozen=True, slots=True)
-class Candidate:
-    """A set of upgrades: its selection (option per group), ids, net cost, objective value."""
-
-    selection: tuple[int, ...]
-    upgrade_ids: tuple[str, ...]
-    net_cost: float
-    objective_value: float
-
-
-@dataclass(frozen=True, slots=True)
-class Optimum:
-    """The best set within the budget, the frontier and how they were found.
-
-    ``upper_bound`` (only when ``exact`` is false) is a value no allowed set can exceed.
-    """
-
-    objective: str
-    budget: float
-    best: Candidate
-    frontier: tuple[Candidate, ...]
-    exact: bool
-    method: str
-    upper_bound: float | None
-    sets: int
-    frontier_capped: bool
-    warnings: tuple[str, ...]
-
-
-def objective_values(figures: Figures, objective: str) -> FloatArray:
-    """The objective of each evaluated variant: NPV, first-year savings or CO2 avoided [kg]."""
-    if objective == "npv":
-        return figures.npv
-    if objective == "annual_savings":
-        return figures.annual_savings
-    if objective == "co2":
-        return figures.co2_avoided_kg
-    raise ValueError(f"the objective must be one of {', '.join(OBJECTIVES)}")
-
-
-# --- the heating load as a function of UA --------------------------------------------------
-
-
-@dataclass(frozen=True, slots=True)
-class Piece:
-    """L / 86 400 = slope · UA + offset [W/K · K·day] for UA in [start, end] [W/K]."""
-
-    start: float
-    end: float
-    slope: float
-    offset: float
-
-
-def load_pieces(climate: model.Climate, ua_low: float, ua_high: float) -> list[Piece]:
-    """The heating load L(UA)/86 400 as linear pieces covering [ua_low, ua_high] (proof, 4).
-
-    Fixed base: one piece, slope HDD. Variable base with gains G > 0: breakpoints
-    UA_i = G / (T_set − b_i) for the table bases below the setpoint; slope h_i + s_i (T_set −
-    b_i) and offset −s_i G on table segment i; slope h_0 (or h_n) where the balance point is
-    clamped to the table's lowest (highest) base.
-    """
-    vb = climate.variable_base
-    if vb is None:
-        return [Piece(ua_low, ua_high, climate.hdd_k_day, 0.0)]
-    bases, hdd = vb.bases_c, vb.hdd_k_day
-    setpoint, gains = vb.setpoint_c, vb.internal_gains_w
-    if gains == 0:
-        base = min(max(setpoint, bases[0]), bases[-1])
-        value = float(np.interp(base, np.array(bases), np.array(hdd)))
-        return [Piece(ua_low, ua_high, value, 0.0)]
-    pieces: list[Piece] = []
-
-    def at(base: float) -> float:  # UA at which the balance point is ``base``
-        return gains / (setpoint - base) if base < setpoint else math.inf
-
-    pieces.append(Piece(0.0, at(bases[0]), hdd[0], 0.0))
-    for i in range(len(bases) - 1):
-        slope_t = (hdd[i + 1] - hdd[i]) / (bases[i + 1] - bases[i])
-        pieces.append(
-            Piece(
-                at(bases[i]),
-                at(bases[i + 1]),
-                hdd[i] + slope_t * (setpoint - bases[i]),
-                -slope_t * gains,
-            )
-        )
-    pieces.append(Piece(at(bases[-1]), math.inf, hdd[-1], 0.0))
-    kept = [
-        Piece(max(p.start, ua_low), min(p.end, ua_high), p.slope, p.offset)
-        for p in pieces
-        if p.start < p.end and p.end >= ua_low and p.start <= ua_high
-    ]
-    # pieces of zero length at a shared breakpoint add nothing
-    useful = [p for p in kept if p.end > p.start]
-    return useful or kept[:1]
-
-
-def convex_on_range(pieces: list[Piece]) -> bool:
-    """Are the pieces' slopes nondecreasing in UA (L convex on their interval; proof, 3)?"""
-    slopes = [p.slope for p in pieces]
-    scale = max((abs(s) for s in slopes), default=1.0) or 1.0
-    return all(b >= a - 1e-12 * scale for a, b in zip(slopes, slopes[1:], strict=False))
-
-
-# --- the linear model ------------------------------------------------------------------------
-
-
-@dataclass
-class _Model:
-    """Coefficients of the minimised ``−objective`` per option, in one flat vector."""
-
-    starts: list[int]
-    cost_x: FloatArray  # k_U·ua + k_P·p + k_C·c per option (load term apart)
-    k_load: float  # per unit of L / 86 400
-    ua_x: FloatArray  # UA per option (chord slope × U·A for coupled groups)
-    ua_const: float
-    net_x: FloatArray
-    pieces: list[Piece]
-    relaxed: bool
-
-
-def _coefficients(variants: Variants, objective: str) -> tuple[float, float, float, float]:
-    """(k_J per J of heating load or pipe loss, k_U per W/K of cooling, k_C per net cost,
-    nothing) of the minimised −objective."""
-    house = variants.house
-    heating = house.heating
-    per_j_fuel = 1.0 / (heating.efficiency * heating.fuel.energy_per_unit_j)
-    cool_kwh_per_ua = 0.0
-    if house.cooling is not None:
-        cooling = house.cooling
-        per_j = (
-            (1.0 / BTU_J / cooling.seer * HOUR_S)
-            if cooling.seer is not None
-            else 1.0 / (cooling.cop or 1.0)
-        )
-        cool_kwh_per_ua = house.climate.cdd_k_day * energy.DAY_S * per_j / KWH_J
-    if objective == "co2":
-        heating_factor = 0.0 if heating.fuel.biogenic else model.heating_co2_per_unit(house)
-        return (
-            per_j_fuel * heating_factor,
-            cool_kwh_per_ua * house.electricity_co2_kg_per_kwh,
-            0.0,
-            0.0,
-        )
-    price_e = 0.0 if house.cooling is None else house.cooling.electricity_price_per_kwh
-    k_j = per_j_fuel * heating.price_per_unit
-    k_u = cool_kwh_per_ua * price_e
-    if objective == "npv":
-        return k_j * variants.upv, k_u * variants.upv, 1.0, 0.0
-    return k_j, k_u, 0.0, 0.0
-
-
-def _ua_range(variants: Variants) -> tuple[float, float, list[tuple[int, float, float]]]:
-    """Lowest and highest UA any selection reaches [W/K] and each coupled space's chord
-    (space index, slope, intercept) of b·H_iu over [H_min, H_max] (proof, 5)."""
-    from server.physics.variants import adjustment_factor
-
-    coupled = {g for space in variants.coupled for g in space.groups}
-    low = sum(float(variants.ua[g].min()) for g in range(len(variants.groups)) if g not in coupled)
-    high = sum(float(variants.ua[g].max()) for g in range(len(variants.groups)) if g not in coupled)
-    chords = []
-    for index, space in enumerate(variants.coupled):
-        h_min = sum(float(variants.ua[g].min()) for g in space.groups)
-        h_max = sum(float(variants.ua[g].max()) for g in space.groups)
-        ends = np.array([h_min, h_max])
-        g_ends = adjustment_factor(ends, space.h_ue_w_per_k) * ends
-        slope = 0.0 if h_max == h_min else float((g_ends[1] - g_ends[0]) / (h_max - h_min))
-        chords.append((index, slope, float(g_ends[0] - slope * h_min)))
-        low += float(g_ends[0])
-        high += float(g_ends[1])
-    return low, high, chords
-
-
-def _model(variants: Variants, objective: str) -> _Model:
-    k_j, k_u, k_c, _ = _coefficients(variants, objective)
-    low, high, chords = _ua_range(variants)
-    coupled_slope: dict[int, float] = {}
-    ua_const = 0.0
-    for index, slope, intercept in chords:
-        ua_const += intercept
-        for g in variants.coupled[index].groups:
-            coupled_slope[g] = slope
-    starts, cost, ua, net = [], [], [], []
-    position = 0
-    for g in range(len(variants.groups)):
-        starts.append(position)
-        position += len(variants.groups[g].options)
-        scale = coupled_slope.get(g, 1.0)
-        ua.append(variants.ua[g] * scale)
-        net.append(variants.installed[g] - variants.rebate[g])
-        cost.append(k_u * ua[-1] + k_j * variants.pipe[g] + k_c * net[-1])
-    pad = 1e-9 * max(1.0, abs(high))
-    pieces = load_pieces(variants.house.climate, max(low - pad, 0.0), high + pad)
-    return _Model(
-        starts=starts,
-        cost_x=np.concatenate(cost) if cost else np.zeros(0),
-        k_load=k_j * energy.DAY_S,
-        ua_x=np.concatenate(ua) if ua else np.zeros(0),
-        ua_const=ua_const,
-        net_x=np.concatenate(net) if net else np.zeros(0),
-        pieces=pieces,
-        relaxed=bool(variants.coupled),
-    )
-
-
-@dataclass
-class _Solver:
-    """One MILP of the family: max objective (or min net cost at a held objective)."""
-
-    variants: Variants
-    model: _Model
-    piecewise: bool
-    solves: int = 0
-
-    def _layout(self) -> tuple[int, int, int]:
-        """(number of x, index of the first load variable, number of load variables)."""
-        n = self.model.cost_x.size
-        if len(self.model.pieces) == 1:
-            return n, n, 0
-        if not self.piecewise:
-            return n, n, 1
-        return n, n, 2 * len(self.model.pieces)
-
-    def _rows(
-        self, budget: float, held: float | None, scale: float
-    ) -> tuple[FloatArray, list[LinearConstraint], FloatArray, Bounds, FloatArray]:
-        from scipy.optimize import Bounds, LinearConstraint
-        from scipy.sparse import csr_array, lil_array
-
-        m = self.model
-        n, first, extra = self._layout()
-        total = n + extra
-        # minimised −objective (scaled), load term by layout
-        c = np.zeros(total)
-        c[:n] = m.cost_x
-        pieces = m.pieces
-        if extra == 0:
-            c[:n] += m.k_load * pieces[0].slope * m.ua_x
-            const = m.k_load * (pieces[0].slope * m.ua_const + pieces[0].offset)
-        elif not self.piecewise:
-            c[first] = m.k_load
-            const = 0.0
-        else:
-            for j, p in enumerate(pieces):
-                c[first + j] = m.k_load * p.offset  # w_j
-                c[first + len(pieces) + j] = m.k_load * p.slope  # v_j
-            const = 0.0
-        c *= scale
-        const *= scale
-        constraints: list[LinearConstraint] = []
-        groups = len(m.starts)
-        eq = lil_array((groups, total))
-        for g, start in enumerate(m.starts):
-            eq[g, start : start + len(self.variants.groups[g].options)] = 1.0
-        constraints.append(LinearConstraint(csr_array(eq), 1.0, 1.0))
-        if math.isfinite(budget):
-            row = np.zeros(total)
-            row[:n] = m.net_x
-            constraints.append(
-                LinearConstraint(row[None, :], -np.inf, budget + TOLERANCE * max(1.0, abs(budget)))
-            )
-        lower = np.zeros(total)
-        upper = np.ones(total)
-        integrality = np.zeros(total)
-        integrality[:n] = 1
-        if extra and not self.piecewise:
-            # y ≥ slope_k · UA + offset_k for every piece (epigraph, proof 3)
-            rows = np.zeros((len(pieces), total))
-            rhs = np.zeros(len(pieces))
-            for k, p in enumerate(pieces):
-                rows[k, :n] = p.slope * m.ua_x
-                rows[k, first] = -1.0
-                rhs[k] = -(p.slope * m.ua_const + p.offset)
-            constraints.append(LinearConstraint(rows, -np.inf, rhs))
-            upper[first] = np.inf
-        elif extra:
-            s = len(pieces)
-            w = first
-            v = first + s
-            integrality[w : w + s] = 1
-            upper[v : v + s] = [p.end for p in pieces]
-            link = np.zeros((1, total))
-            link[0, :n] = -m.ua_x
-            link[0, v : v + s] = 1.0
-            constraints.append(LinearConstraint(link, m.ua_const, m.ua_const))
-            choose = np.zeros((1, total))
-            choose[0, w : w + s] = 1.0
-            constraints.append(LinearConstraint(choose, 1.0, 1.0))
-            bounds_rows = np.zeros((2 * s, total))
-            for j, p in enumerate(pieces):
-                bounds_rows[2 * j, v + j] = 1.0
-                bounds_rows[2 * j, w + j] = -p.end
-                bounds_rows[2 * j + 1, v + j] = -1.0
-                bounds_rows[2 * j + 1, w + j] = p.start
-            constraints.append(LinearConstraint(bounds_rows, -np.inf, 0.0))
-        if held is not None:
-            constraints.append(LinearConstraint(c[None, :], -np.inf, held - const))
-        return c, constraints, integrality, Bounds(lower, upper), np.array([const])
-
-    def _run(
-        self,
-        c: FloatArray,
-        constraints: list[LinearConstraint],
-        integrality: FloatArray,
-        bounds: Bounds,
-    ) -> FloatArray | None:
-        from scipy.optimize import milp
-
-        self.solves += 1
-        result = milp(
-            c,
-            constraints=constraints,
-            integrality=integrality,
-            bounds=bounds,
-            options={"mip_rel_gap": 1e-12, "presolve": True},
-        )
-        if result.x is None or result.status not in (0,):
-            return None
-        return np.asarray(result.x)
-
-    def _selection(self, x: FloatArray) -> IntArray:
-        m = self.model
-        row = np.zeros(len(m.starts), dtype=np.int64)
-        for g, start in enumerate(m.starts):
-            size = len(self.variants.groups[g].options)
-            row[g] = int(np.argmax(x[start : start + size]))
-        return row
-
-    def scale(self) -> float:
-        """Factor that makes the spread of the minimised objective about 1e6."""
-        m = self.model
-        spread = 0.0
-        for g, start in enumerate(m.starts):
-            size = len(self.variants.groups[g].options)
-            part = (
-                m.cost_x[start : start + size]
-                + m.k_load * max(p.slope for p in m.pieces) * m.ua_x[start : start + size]
-            )
-            spread += float(part.max() - part.min())
-        return 1e6 / spread if spread > 0 else 1.0
-
-    def best(self, budget: float) -> tuple[IntArray, IntArray | None] | None:
-        """The selection of highest objective with net cost ≤ budget, and the cheapest
-        selection of (about) that objective, to be checked by the caller."""
-        scale = self.scale()
-        c, cons, integrality, bounds, const = self._rows(budget, None, scale)
-        x = self._run(c, cons, integrality, bounds)
-        if x is None:
-            return None
-        held = float(c @ x + const[0])
-        tie = TOLERANCE * 1e6
-        c2, cons2, integrality2, bounds2, _ = self._rows(budget, held + tie, scale)
-        cost = np.zeros_like(c2)
-        cost[: self.model.net_x.size] = self.model.net_x
-        x2 = self._run(cost, cons2, integrality2, bounds2)
-        return self._selection(x), None if x2 is None else self._selection(x2)
-
-
-def _candidate(variants: Variants, row: IntArray, objective: str) -> Candidate:
-    figures = variants.evaluate(row[None, :])
-    return Candidate(
-        selection=tuple(int(v) for v in row),
-        upgrade_ids=variants.upgrade_ids(row),
-        net_cost=float(figures.net_cost[0]),
-        objective_value=float(objective_values(figures, objective)[0]),
-    )
-
-
-def _within(net_cost: float, budget: float) -> bool:
-    return net_cost <= budget + TOLERANCE * max(1.0, abs(budget))
-
-
-def _step(net_cost: float) -> float:
-    return 1e-7 * max(1.0, abs(net_cost))
-
-
-def pareto(costs: FloatArray, values: FloatArray) -> list[int]:
-    """Indices of the sets no other beats on both net cost and objective, ascending by cost.
-
-    Costs within ``1e-7·max(1, |C|)`` of each other count as one (the frontier's δ); objective
-    ties within 1e-9 of the objective's spread are ties.
-    """
-    order = np.lexsort((-values, costs))
-    spread = float(values.max() - values.min()) if values.size else 0.0
-    tie = TOLERANCE * max(1.0, spread)
-    kept: list[int] = []
-    running = -math.inf
-    for index in order:
-        cost, value = float(costs[index]), float(values[index])
-        if kept and cost - float(costs[kept[-1]]) <= _step(float(costs[kept[-1]])):
-            if value > float(values[kept[-1]]) + tie:
-                kept[-1] = int(index)
-                running = value
-            continue
-        if value > running + tie:
-            kept.append(int(index))
-            running = value
-    return kept
-
-
-def _enumerate(
-    variants: Variants, budget: float, objective: str, limit: int
-) -> tuple[Candidate, list[Candidate], bool]:
-    rows = variants.all_selections()
-    figures = variants.evaluate(rows)
-    values = objective_values(figures, objective)
-    costs = figures.net_cost
-    allowed = (
-        costs <= budget + TOLERANCE * max(1.0, abs(budget))
-        if math.isfinite(budget)
-        else np.ones(costs.size, bool)
-    )
-    spread = float(values.max() - values.min())
-    tie = TOLERANCE * max(1.0, spread)
-    top = float(values[allowed].max())
-    ties = np.flatnonzero(allowed & (values >= top - tie))
-    choice = int(ties[np.argmin(costs[ties])])
-    best = _candidate(variants, rows[choice], objective)
-    front = pareto(costs, values)
-    capped = 0 < limit < len(front)
-    front = front[len(front) - limit :] if limit > 0 else []
-    return best, [_candidate(variants, rows[i], objective) for i in front], capped
+#: the optimiser's public names, wherever they are defined (importers use ``optimize.<name>``)
+__all__ = [
+    "FRONTIER_LIMIT",
+    "MAX_ENUMERATION",
+    "MAX_MODEL_ENUMERATION",
+    "METHOD_WORDS",
+    "OBJECTIVES",
+    "RESOLUTION",
+    "TOLERANCE",
+    "Candidate",
+    "Optimum",
+    "Piece",
+    "best_package",
+    "best_package_by_model",
+    "convex_on_range",
+    "load_pieces",
+    "objective_values",
+    "pareto",
+]
 
 
 def best_package(
@@ -588,7 +175,7 @@ def best_package(
     if math.isnan(budget) or budget < 0:
         raise ValueError("the budget must be zero or more")
     sets = variants.count()
-    m = _model(variants, objective)
+    m = linear_model(variants, objective)
     convex = convex_on_range(m.pieces)
     warnings: list[str] = []
     if variants.nonlinear is not None and sets > MAX_ENUMERATION:
@@ -599,7 +186,7 @@ def best_package(
             f"upgrades, more than the {MAX_ENUMERATION} evaluated one by one: no best set is "
             "given"
         )
-        empty = _candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
+        empty = candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
         return Optimum(
             objective, budget, empty, (), False, "enumeration", None, sets, False, (words,)
         )
@@ -608,9 +195,9 @@ def best_package(
         and (m.relaxed or not convex or variants.nonlinear is not None)
         and sets <= MAX_ENUMERATION
     ):
-        best, listed, capped = _enumerate(variants, budget, objective, frontier_limit)
+        best, listed, capped = enumerate_sets(variants, budget, objective, frontier_limit)
         if capped:
-            warnings.append(_capped_words(frontier_limit))
+            warnings.append(capped_words(frontier_limit))
         return Optimum(
             objective,
             budget,
@@ -623,9 +210,9 @@ def best_package(
             capped,
             tuple(warnings),
         )
-    solver = _Solver(variants, m, piecewise=not convex)
+    solver = Solver(variants, m, piecewise=not convex)
     name = "milp_bound" if m.relaxed else ("milp" if convex else "milp_piecewise")
-    empty = _candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
+    empty = candidate(variants, np.zeros(len(variants.groups), dtype=np.int64), objective)
 
     cost_spread = sum(
         float(np.ptp(variants.installed[g] - variants.rebate[g]))
@@ -638,18 +225,21 @@ def best_package(
             rows = solver.best(bound)
             if rows is None:
                 return None
-            found = _candidate(variants, rows[0], objective)
-            if math.isfinite(limit_budget) and not _within(found.net_cost, limit_budget):
+            found = candidate(variants, rows[0], objective)
+            if math.isfinite(limit_budget) and not within_budget(found.net_cost, limit_budget):
                 # HiGHS's integrality tolerance (1e-6) let a nearly integral point over the
                 # budget: tighten by the excess and a growing share of the cost spread, retry
                 bound -= (found.net_cost - bound) + RESOLUTION * max(1.0, cost_spread) * 2**attempt
                 continue
             if rows[1] is not None:  # the cheapest of that objective, when it checks out
-                cheaper = _candidate(variants, rows[1], objective)
+                cheaper = candidate(variants, rows[1], objective)
                 tie = TOLERANCE * max(1.0, abs(found.objective_value))
                 if (
                     cheaper.net_cost <= found.net_cost
-                    and (not math.isfinite(limit_budget) or _within(cheaper.net_cost, limit_budget))
+                    and (
+                        not math.isfinite(limit_budget)
+                        or within_budget(cheaper.net_cost, limit_budget)
+                    )
                     and cheaper.objective_value >= found.objective_value - tie
                 ):
                     found = cheaper
@@ -661,7 +251,7 @@ def best_package(
     if m.relaxed:
         # the relaxed optimum's own (optimistic) value bounds every set (proof, 5)
         row = np.array(best.selection, dtype=np.int64)
-        upper = _relaxed_value(variants, m, row, objective)
+        upper = relaxed_value(variants, m, row, objective)
         if best.objective_value < empty.objective_value or (
             best.objective_value == empty.objective_value and best.net_cost > 0
         ):
@@ -677,9 +267,9 @@ def best_package(
         len(m.pieces) == 1 or all(float(np.ptp(p)) == 0.0 for p in variants.pipe)
     )
     if frontier_limit > 0 and mergeable:
-        front, capped = _merged_frontier(variants, m, objective, frontier_limit, best)
+        front, capped = merged_frontier(variants, m, objective, frontier_limit, best)
         if capped:
-            warnings.append(_spread_words(frontier_limit))
+            warnings.append(spread_words(frontier_limit))
     elif frontier_limit > 0:
         low_cost = sum(
             float((variants.installed[g] - variants.rebate[g]).min())
@@ -699,8 +289,8 @@ def best_package(
                     break
                 front.append(found)
             # a step beyond what the integrality tolerance lets a near-integral point gain
-            limit_budget = found.net_cost - max(_step(found.net_cost), RESOLUTION * cost_spread)
-            if limit_budget < low_cost - _step(low_cost):
+            limit_budget = found.net_cost - max(cost_step(found.net_cost), RESOLUTION * cost_spread)
+            if limit_budget < low_cost - cost_step(low_cost):
                 break
         front.reverse()
         if m.relaxed:
@@ -708,7 +298,7 @@ def best_package(
             costs = np.array([p.net_cost for p in front])
             front = [front[i] for i in pareto(costs, values)] if front else []
         if capped:
-            warnings.append(_capped_words(frontier_limit))
+            warnings.append(capped_words(frontier_limit))
     return Optimum(
         objective,
         budget,
@@ -721,174 +311,3 @@ def best_package(
         capped,
         tuple(warnings),
     )
-
-
-def _spread_words(limit: int) -> str:
-    return (
-        f"the frontier has more than {limit} points: {limit} of them are listed, spread evenly "
-        "over it from the cheapest to the dearest, the best set for the budget among them"
-    )
-
-
-def _merged_frontier(
-    variants: Variants, m: _Model, objective: str, limit: int, best: Candidate
-) -> tuple[list[Candidate], bool]:
-    """The exact frontier by merging the groups' options one group at a time [6].
-
-    When the objective is a sum over groups (one load piece), a partial set beaten on both
-    net cost and its share of the objective by another partial set over the same groups can
-    be swapped for it in any whole set without loss, so only the unbeaten partial sets are
-    kept at each step. With the variable base and no pipe options, the objective falls with
-    both net cost and UA, so a set on the (net cost, objective) frontier is on the (net cost,
-    UA) frontier: that one is built the same way, every point evaluated exactly and filtered.
-    """
-    separable = len(m.pieces) == 1
-    slope = m.pieces[0].slope
-    cost = np.zeros(1)
-    score = np.zeros(1)
-    parents: list[IntArray] = []
-    choices: list[IntArray] = []
-    for g, start in enumerate(m.starts):
-        size = len(variants.groups[g].options)
-        net = m.net_x[start : start + size]
-        if separable:
-            gain = -(
-                m.cost_x[start : start + size] + m.k_load * slope * m.ua_x[start : start + size]
-            )
-        else:
-            gain = -m.ua_x[start : start + size]
-        all_cost = (cost[:, None] + net[None, :]).ravel()
-        all_score = (score[:, None] + gain[None, :]).ravel()
-        order = np.lexsort((-all_score, all_cost))
-        ordered = all_score[order]
-        before = np.concatenate(([-np.inf], np.maximum.accumulate(ordered)[:-1]))
-        keep = order[ordered > before]
-        parents.append(keep // size)
-        choices.append(keep % size)
-        cost, score = all_cost[keep], all_score[keep]
-    count = cost.size
-    rows = np.zeros((count, len(m.starts)), dtype=np.int64)
-    index = np.arange(count)
-    for g in range(len(m.starts) - 1, -1, -1):
-        rows[:, g] = choices[g][index]
-        index = parents[g][index]
-    figures = variants.evaluate(rows)
-    values = objective_values(figures, objective)
-    front = pareto(figures.net_cost, values)
-    capped = 0 < limit < len(front)
-    if capped:
-        picks = set(np.linspace(0, len(front) - 1, limit).round().astype(int).tolist())
-        best_row = tuple(best.selection)
-        at_best = [i for i, f in enumerate(front) if tuple(rows[f]) == best_row]
-        if at_best and at_best[0] not in picks:
-            nearest = min(picks, key=lambda p: abs(p - at_best[0]))
-            picks.discard(nearest)
-            picks.add(at_best[0])
-        front = [front[i] for i in sorted(picks)]
-    return [_candidate(variants, rows[i], objective) for i in front], capped
-
-
-def _capped_words(limit: int) -> str:
-    return f"the frontier has more than {limit} points: the {limit} of highest net cost are listed"
-
-
-def _relaxed_value(variants: Variants, m: _Model, row: IntArray, objective: str) -> float:
-    """The objective of a selection in the relaxed (chord) model: an over-estimate."""
-    x = np.zeros(m.ua_x.size)
-    for g, start in enumerate(m.starts):
-        x[start + int(row[g])] = 1.0
-    ua = float(m.ua_x @ x) + m.ua_const
-    _ua, pipe, installed, rebate = variants.group_sums(row[None, :])
-    figures = variants.figures_from_sums(np.array([ua]), pipe, installed, rebate)
-    return float(objective_values(figures, objective)[0])
-
-
-#: most sets evaluated one by one through the package path when the array core does not
-#: model the house (each is one modified house, about a millisecond)
-MAX_MODEL_ENUMERATION = 4096
-
-
-def best_package_by_model(
-    house: model.House,
-    upgrades: list[model.Upgrade],
-    *,
-    budget: float,
-    objective: str,
-    frontier_limit: int = FRONTIER_LIMIT,
-    reason: str,
-) -> tuple[Optimum, list[model.OptionResult | None]]:
-    """Every allowed set evaluated as a package (:func:`.house_model.evaluate_option`), for a
-    house the array core does not model (``reason``); up to :data:`MAX_MODEL_ENUMERATION`
-    sets, else no answer (``best`` is the empty set, ``exact`` false, a warning says why).
-
-    Returns the optimum and, for each frontier point, its evaluated option (None: no upgrade).
-    """
-    import itertools
-
-    if objective not in OBJECTIVES:
-        raise ValueError(f"the objective must be one of {', '.join(OBJECTIVES)}")
-    targets: dict[str, list[model.Upgrade]] = {}
-    for upgrade in upgrades:
-        targets.setdefault(model.upgrade_target(upgrade), []).append(upgrade)
-    groups = list(targets.values())
-    sets = math.prod(len(g) + 1 for g in groups)
-    empty = Candidate(tuple(0 for _ in groups), (), 0.0, 0.0)
-    if sets > MAX_MODEL_ENUMERATION:
-        words = (
-            f"the optimiser's fast core does not model {reason}, and this house has {sets} sets "
-            f"of upgrades, more than the {MAX_MODEL_ENUMERATION} it evaluates one by one: no "
-            "best set is given"
-        )
-        return Optimum(
-            objective, budget, empty, (), False, "enumeration", None, sets, False, (words,)
-        ), []
-    as_found = model.evaluate(house)
-    order = {u.id: i for i, u in enumerate(upgrades)}
-    candidates: list[Candidate] = []
-    options: list[model.OptionResult | None] = []
-    for combo in itertools.product(*(range(len(g) + 1) for g in groups)):
-        chosen = sorted(
-            (groups[g][k - 1] for g, k in enumerate(combo) if k > 0), key=lambda u: order[u.id]
-        )
-        if not chosen:
-            candidates.append(empty)
-            options.append(None)
-            continue
-        option = model.evaluate_option(house, as_found, "set", chosen)
-        value = {
-            "npv": option.appraisal.npv,
-            "annual_savings": option.appraisal.annual_savings,
-            "co2": option.co2_avoided_kg,
-        }[objective]
-        candidates.append(
-            Candidate(combo, tuple(u.id for u in chosen), option.appraisal.net_cost, value)
-        )
-        options.append(option)
-    costs = np.array([c.net_cost for c in candidates])
-    values = np.array([c.objective_value for c in candidates])
-    allowed = (
-        np.array([_within(c, budget) for c in costs])
-        if math.isfinite(budget)
-        else np.ones(costs.size, bool)
-    )
-    tie = TOLERANCE * max(1.0, float(values.max() - values.min()))
-    top = float(values[allowed].max())
-    ties = np.flatnonzero(allowed & (values >= top - tie))
-    best = candidates[int(ties[np.argmin(costs[ties])])]
-    front = pareto(costs, values)
-    capped = 0 < frontier_limit < len(front)
-    front = front[len(front) - frontier_limit :] if frontier_limit > 0 else []
-    warnings = (_capped_words(frontier_limit),) if capped else ()
-    optimum = Optimum(
-        objective,
-        budget,
-        best,
-        tuple(candidates[i] for i in front),
-        True,
-        "enumeration",
-        None,
-        sets,
-        capped,
-        warnings,
-    )
-    return optimum, [options[i] for i in front]

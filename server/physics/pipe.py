@@ -17,11 +17,14 @@ References
     memory).
 [4] ASTM C1055, Standard Guide for Heated System Surface Conditions that Produce Contact Burn
     Injuries: about 60 °C (140 °F) for a few seconds of contact (from memory).
+
+The inputs, results and ranges are in :mod:`.pipe_types` and the resistance formulas in
+:mod:`.pipe_resistance`; this module solves a run and re-exports those names (importers use
+``pipe.<name>``).
 """
 
 from __future__ import annotations
 
-import enum
 import math
 from dataclasses import dataclass, replace
 
@@ -29,272 +32,53 @@ from server.physics.convection import (
     AIR_TABLE_MAX_C,
     AIR_TABLE_MIN_C,
     CHURCHILL_CHU_MAX_RAYLEIGH,
-    KELVIN_OFFSET,
     cylinder_surface_coefficient,
+)
+from server.physics.pipe_resistance import (
+    critical_radius,
+    cylinder_resistance_per_length,
+    equivalent_flat_resistance,
+    layer_radii,
+    surface_resistance_per_length,
+)
+from server.physics.pipe_types import (
+    CONDUCTIVITY_RANGE_W_MK,
+    HOURS_PER_LEAP_YEAR,
+    MAX_TARGET_THICKNESS_M,
+    PLAUSIBLE_H_W_M2K,
+    TARGET_RANGE_W_M,
+    THIN_LAYER_M,
+    TOUCH_LIMIT_C,
+    AnnualHeatLoss,
+    CautionKind,
+    LayerResult,
+    PipeCaution,
+    PipeHeatLoss,
+    PipeInputError,
+    PipeLayer,
+    PipeRun,
+    Problem,
+    TargetThickness,
+    check_range,
 )
 from server.physics.units import HOUR_S
 
-# Accepted ranges (SI). They keep every result finite; none binds a real building pipe.
-DIAMETER_RANGE_M = (1e-4, 5.0)  # 0.1 mm .. 5 m: larger is a vessel or duct (common practice)
-THICKNESS_RANGE_M = (1e-5, 2.0)  # 0.01 mm .. 2 m (common practice)
-# below vacuum panels (~0.004) and above every solid (diamond ~2000 W/(m·K)); from memory
-CONDUCTIVITY_RANGE_W_MK = (1e-4, 1e4)
-COEFFICIENT_RANGE_W_M2K = (1e-2, 1e5)  # common practice
-LENGTH_RANGE_M = (1e-3, 1e6)  # common practice
-TARGET_RANGE_W_M = (1e-6, 1e9)  # common practice
-MAX_TEMPERATURE_C = 1000.0  # building-services pipes stay far below this (common practice)
-MAX_TARGET_THICKNESS_M = 0.5  # search bound for the target thickness (common practice)
-HOURS_PER_LEAP_YEAR = 8784.0  # 366 days x 24 h
+#: names importers read as ``pipe.<name>``, wherever they are defined
+__all__ = [
+    "PLAUSIBLE_H_W_M2K",
+    "THIN_LAYER_M",
+    "TOUCH_LIMIT_C",
+    "PipeLayer",
+    "PipeRun",
+    "annual_heat_loss",
+    "pipe_heat_loss",
+    "run_cautions",
+    "thickness_for_target",
+]
+
+
 _SOLVER_MAX_ITERATIONS = 200  # bisection halvings; 1000 K range -> 1e-12 K after ~50
 _SOLVER_TOLERANCE_K = 1e-10
-TOUCH_LIMIT_C = 60.0  # contact-burn guidance [4] (from memory)
-THIN_LAYER_M = 0.006  # 1/4 in: thinner wraps are rarely practical (common practice)
-PLAUSIBLE_H_W_M2K = (2.0, 100.0)  # still air to strong wind, pipes in air (common practice)
-
-
-class Problem(enum.Enum):
-    """What is wrong with an input; :class:`PipeInputError` ``figures`` carry its numbers (SI)."""
-
-    NOT_FINITE = "not a finite number"
-    NOT_POSITIVE = "not greater than zero"
-    BELOW_MINIMUM = "below the minimum"  # figures: (minimum,)
-    ABOVE_MAXIMUM = "above the maximum"  # figures: (maximum,)
-    TEMPERATURE_RANGE = "not above absolute zero and at most the maximum"  # (maximum [°C],)
-    EMISSIVITY_RANGE = "not in (0, 1]"
-    OUTSIDE_AIR_TABLE = "outside the computed coefficient's range"  # (low [°C], high [°C])
-    TARGET_UNREACHABLE = "target cannot be met"  # (thickness tried [m], its |q'| [W/m])
-    RESULT_NOT_FINITE = "the heat loss is not a finite number"
-
-
-class PipeInputError(ValueError):
-    """A value the pipe calculation cannot use.
-
-    ``parameter`` names the input at fault, ``problem`` says what is wrong and ``figures``
-    holds the SI numbers a message needs (see :class:`Problem`).
-    """
-
-    def __init__(self, parameter: str, problem: Problem, *figures: float) -> None:
-        super().__init__(f"{parameter}: {problem.value}")
-        self.parameter = parameter
-        self.problem = problem
-        self.figures = figures
-
-
-class CautionKind(enum.Enum):
-    """A caution about a computed run; :class:`PipeCaution` ``value`` is its figure (SI)."""
-
-    HOT_SURFACE = "outer surface above the touch limit"  # value: surface temperature [°C]
-    COLD_PIPE = "pipe colder than the air"  # value: surface temperature [°C]
-    THIN_LAYER = "layer thinner than practical"  # value: thickness [m]; layer_index
-    UNUSUAL_COEFFICIENT = "given coefficient outside the usual range"  # value: h [W/(m²·K)]
-    HIGH_RAYLEIGH = "Rayleigh number above the correlation's range"  # value: Ra [-]
-    RAISES_HEAT_FLOW = "insulation below the critical radius"  # value: r_cr = k/h [m]
-
-
-@dataclass(frozen=True, slots=True)
-class PipeCaution:
-    """One caution: its kind, its figure (SI, see :class:`CautionKind`), the layer (0-based)."""
-
-    kind: CautionKind
-    value: float
-    layer_index: int | None = None
-
-
-@dataclass(frozen=True, slots=True)
-class PipeLayer:
-    """One insulation layer: thickness [m] and conductivity [W/(m·K)]."""
-
-    thickness_m: float
-    conductivity_w_mk: float
-
-    def __post_init__(self) -> None:
-        _check("thickness_m", self.thickness_m, THICKNESS_RANGE_M)
-        _check("conductivity_w_mk", self.conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK)
-
-
-@dataclass(frozen=True, slots=True)
-class PipeRun:
-    """A horizontal pipe run in still air. ``surface_coefficient_w_m2k`` None = computed."""
-
-    pipe_outer_diameter_m: float
-    layers: tuple[PipeLayer, ...]
-    fluid_temperature_c: float
-    ambient_temperature_c: float
-    surface_coefficient_w_m2k: float | None = None
-    emissivity: float = 0.9  # painted or jacketed surface (common practice, from memory)
-    length_m: float = 1.0
-
-    def __post_init__(self) -> None:
-        _check("pipe_outer_diameter_m", self.pipe_outer_diameter_m, DIAMETER_RANGE_M)
-        for name in ("fluid_temperature_c", "ambient_temperature_c"):
-            value = getattr(self, name)
-            if not (math.isfinite(value) and -KELVIN_OFFSET < value <= MAX_TEMPERATURE_C):
-                raise PipeInputError(name, Problem.TEMPERATURE_RANGE, MAX_TEMPERATURE_C)
-        if self.surface_coefficient_w_m2k is not None:
-            coefficient = self.surface_coefficient_w_m2k
-            _check("surface_coefficient_w_m2k", coefficient, COEFFICIENT_RANGE_W_M2K)
-        if not (math.isfinite(self.emissivity) and 0 < self.emissivity <= 1):
-            raise PipeInputError("emissivity", Problem.EMISSIVITY_RANGE)
-        _check("length_m", self.length_m, LENGTH_RANGE_M)
-
-
-@dataclass(frozen=True, slots=True)
-class LayerResult:
-    """One layer's share: outer diameter [m], R' [m·K/W], outer-face temperature [°C]."""
-
-    outer_diameter_m: float
-    r_per_length_mk_w: float
-    outer_temperature_c: float
-
-
-@dataclass(frozen=True, slots=True)
-class PipeHeatLoss:
-    """Result for one run; heat flows are positive out of the pipe (negative = heat gain)."""
-
-    outer_diameter_m: float
-    r_insulation_per_length_mk_w: float
-    r_surface_per_length_mk_w: float
-    heat_loss_per_length_w_m: float
-    heat_loss_w: float
-    bare_heat_loss_per_length_w_m: float
-    surface_temperature_c: float
-    surface_coefficient_w_m2k: float
-    convection_w_m2k: float | None  # None when the coefficient was given
-    radiation_w_m2k: float | None
-    rayleigh: float | None
-    r_equivalent_flat_m2k_w: float
-    layers: tuple[LayerResult, ...]
-    iterations: int
-    cautions: tuple[PipeCaution, ...]
-
-    @property
-    def r_per_length_mk_w(self) -> float:
-        """R' = R'_insulation + R'_surface [m·K/W]."""
-        return self.r_insulation_per_length_mk_w + self.r_surface_per_length_mk_w
-
-
-@dataclass(frozen=True, slots=True)
-class TargetThickness:
-    """Thickness of one insulation layer on the bare pipe that meets a heat-loss target."""
-
-    thickness_m: float
-    heat_loss_per_length_w_m: float
-    surface_temperature_c: float
-
-
-@dataclass(frozen=True, slots=True)
-class AnnualHeatLoss:
-    """Heat lost over a year's operating hours, before any heating-system efficiency."""
-
-    hours_per_year: float
-    energy_j: float
-    energy_kwh: float
-
-
-def _check(parameter: str, value: float, bounds: tuple[float, float]) -> None:
-    """Raise PipeInputError unless 0 < low <= value <= high."""
-    low, high = bounds
-    if not math.isfinite(value):
-        raise PipeInputError(parameter, Problem.NOT_FINITE)
-    if value <= 0:
-        raise PipeInputError(parameter, Problem.NOT_POSITIVE)
-    if value < low:
-        raise PipeInputError(parameter, Problem.BELOW_MINIMUM, low)
-    if value > high:
-        raise PipeInputError(parameter, Problem.ABOVE_MAXIMUM, high)
-
-
-def layer_radii(pipe_outer_diameter_m: float, layers: tuple[PipeLayer, ...]) -> tuple[float, ...]:
-    """Radii [m] of the pipe surface and each layer's outer face: r_0 = D/2, r_j+1 = r_j + t_j."""
-    radii = [0.5 * pipe_outer_diameter_m]
-    for layer in layers:
-        radii.append(radii[-1] + layer.thickness_m)
-    return tuple(radii)
-
-
-def cylinder_resistance_per_length(
-    inner_radius_m: float, outer_radius_m: float, conductivity_w_mk: float
-) -> float:
-    r"""Conduction resistance of a cylindrical shell per unit length.
-
-    .. math:: R' = \frac{\ln(r_2 / r_1)}{2 \pi k}
-
-    Parameters
-    ----------
-    inner_radius_m, outer_radius_m : float
-        Inner and outer radius [m], 0 < inner <= outer.
-    conductivity_w_mk : float
-        Thermal conductivity [W/(m·K)], > 0.
-
-    Returns
-    -------
-    float
-        R' [m·K/W].
-
-    References
-    ----------
-    [1] eq. 3.33 (per unit length L = 1).
-    """
-    if not (0 < inner_radius_m <= outer_radius_m and conductivity_w_mk > 0):
-        raise ValueError("radii must satisfy 0 < inner <= outer and k must be positive")
-    return math.log(outer_radius_m / inner_radius_m) / (2.0 * math.pi * conductivity_w_mk)
-
-
-def surface_resistance_per_length(outer_radius_m: float, surface_coefficient_w_m2k: float) -> float:
-    r"""Outer-surface resistance per unit length, :math:`R'_s = 1 / (2 \pi r_o h)` [m·K/W].
-
-    Parameters
-    ----------
-    outer_radius_m : float
-        Outermost radius [m], > 0.
-    surface_coefficient_w_m2k : float
-        Combined outer coefficient h [W/(m²·K)], > 0.
-
-    References
-    ----------
-    [1] eq. 3.35 (convection term of the composite cylinder).
-    """
-    if not (outer_radius_m > 0 and surface_coefficient_w_m2k > 0):
-        raise ValueError("the radius and the surface coefficient must be positive")
-    return 1.0 / (2.0 * math.pi * outer_radius_m * surface_coefficient_w_m2k)
-
-
-def equivalent_flat_resistance(
-    pipe_outer_diameter_m: float, layers: tuple[PipeLayer, ...]
-) -> float:
-    r"""Insulation R referred to the outer surface area (equivalent flat R).
-
-    .. math:: R_{flat} = r_o \sum_j \frac{\ln(r_{j+1} / r_j)}{k_j}
-              = 2 \pi r_o R'_{insulation}
-
-    Parameters
-    ----------
-    pipe_outer_diameter_m : float
-        Bare pipe outer diameter [m].
-    layers : tuple of PipeLayer
-        Inside to outside.
-
-    Returns
-    -------
-    float
-        R [m²·K/W] per m² of outer insulation surface (0 for a bare pipe).
-
-    References
-    ----------
-    [3] (equivalent thickness / outer-surface basis, method style).
-    """
-    radii = layer_radii(pipe_outer_diameter_m, layers)
-    return radii[-1] * sum(
-        math.log(outer / inner) / layer.conductivity_w_mk
-        for inner, outer, layer in zip(radii[:-1], radii[1:], layers, strict=True)
-    )
-
-
-def critical_radius(conductivity_w_mk: float, surface_coefficient_w_m2k: float) -> float:
-    """Critical insulation radius r_cr = k / h [m]; below it more insulation loses more heat [1]."""
-    if not (conductivity_w_mk > 0 and surface_coefficient_w_m2k > 0):
-        raise ValueError("the conductivity and the surface coefficient must be positive")
-    return conductivity_w_mk / surface_coefficient_w_m2k
 
 
 @dataclass(frozen=True, slots=True)
@@ -453,9 +237,9 @@ def thickness_for_target(
     PipeInputError
         When even ``max_thickness_m`` of the insulation cannot meet the target.
     """
-    _check("conductivity_w_mk", conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK)
+    check_range("conductivity_w_mk", conductivity_w_mk, CONDUCTIVITY_RANGE_W_MK)
     target = target_heat_loss_per_length_w_m
-    _check("target_heat_loss_per_length_w_m", target, TARGET_RANGE_W_M)
+    check_range("target_heat_loss_per_length_w_m", target, TARGET_RANGE_W_M)
     bare = replace(run, layers=())
 
     def solve_at(thickness_m: float) -> _Solution:
@@ -512,7 +296,7 @@ def annual_heat_loss(heat_loss_w: float, hours_per_year: float) -> AnnualHeatLos
     """
     if not math.isfinite(heat_loss_w):
         raise PipeInputError("heat_loss_w", Problem.RESULT_NOT_FINITE)
-    _check("hours_per_year", hours_per_year, (0.0, HOURS_PER_LEAP_YEAR))
+    check_range("hours_per_year", hours_per_year, (0.0, HOURS_PER_LEAP_YEAR))
     return AnnualHeatLoss(
         hours_per_year, heat_loss_w * hours_per_year * HOUR_S, heat_loss_w * hours_per_year / 1e3
     )

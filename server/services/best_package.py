@@ -17,7 +17,7 @@ from server.documents.house import HouseResult
 from server.errors import InputError
 from server.models import House, Package
 from server.services.catalog import Catalog
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 from server.services.houses import check_version
 from server.services.optimize import OBJECTIVE_WORDS

@@ -3,7 +3,8 @@
 A form row is the text of one meter-read period as the page shows it (start, end, use,
 optional cost, the estimated flag, typed degree-days, where the row came from). Rows come
 from the table as typed, from the stored bills, and from the readers of
-:mod:`server.services.bill_readers` (a paste, a CSV, a Green Button file): every one lands in
+:mod:`server.services.bill_table`, :mod:`server.services.bill_csv` and
+:mod:`server.services.green_button` (a paste, a CSV, a Green Button file): every one lands in
 the same table, so the page edits them all alike.
 
 Rule decided here (issue 15, "nothing typed is lost"): a submission with any wrong row is
@@ -13,7 +14,7 @@ paste box with theirs. Saving only the good rows would store bills the auditor h
 complete and fit them without the missing months, which changes the base temperature and the
 normalised use without a word.
 
-Dates are read by :func:`server.services.bill_readers.read_date` (US ``1/6/2025``, ISO
+Dates are read by :func:`server.services.bill_dates.read_date` (US ``1/6/2025``, ISO
 ``2025-01-06`` and the other usual forms); numbers by :mod:`server.services.number_text`
 (a decimal comma only in a metric house).
 """
@@ -26,7 +27,8 @@ from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
 
-from server.services.bill_readers import BillRow, BillsRead, DateTextError, read_date
+from server.services.bill_dates import DateTextError, read_date
+from server.services.bill_rows import BillRow, BillsRead
 from server.services.number_text import NumberTextError, read_decimal
 
 #: most rows the table takes in one submission (three years of monthly bills are 36; a

@@ -27,6 +27,7 @@ from server.documents.bills import BillsResult, DailyTemperaturesIn
 from server.errors import Conflict, InputError
 from server.models import House
 from server.physics.units import UnitSystem
+from server.services.bill_csv import read_bill_csv
 from server.services.bill_forms import (
     MAX_FORM_ROWS,
     FormRow,
@@ -36,15 +37,11 @@ from server.services.bill_forms import (
     rows_from_form,
     rows_from_read,
 )
-from server.services.bill_readers import (
-    BillRow,
-    BillsRead,
-    read_bill_csv,
-    read_bill_text,
-    read_green_button,
-)
+from server.services.bill_rows import BillRow, BillsRead
+from server.services.bill_table import read_bill_text
 from server.services.bill_weather import degree_days_weather, weather_from_files
 from server.services.bills import ELECTRIC_FUELS
+from server.services.green_button import read_green_button
 from server.services.house_bills import DEFAULT_FUEL, save_bills
 
 Upload = tuple[str, BinaryIO]

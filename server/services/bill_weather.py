@@ -38,7 +38,8 @@ from server.physics import bill_model
 from server.physics import degree_days as dd
 from server.physics.units import UnitSystem, temp_from_c, temp_to_c
 from server.services.number_text import NumberTextError, read_decimal
-from server.services.weather_files import WeatherSeries, parse_weather_file
+from server.services.weather_files import parse_weather_file
+from server.services.weather_series import WeatherSeries
 
 WeatherSource = Literal["daily_csv", "hourly_csv", "epw", "tmy3", "degree_days"]
 #: A day of hourly data with fewer values than this is left out as missing (common practice:

@@ -1,7 +1,7 @@
 """The House page's envelope table: each surface as calc/house figures it.
 
 The rows of :func:`server.services.houses.surface_rows` (each assembly's R, U and code verdict)
-are joined with the as-found figures of :func:`server.services.house.compute_house` on the
+are joined with the as-found figures of :func:`server.services.comparison.compute_house` on the
 house's own document (:func:`server.services.house_document.house_document`), so what lies
 behind a surface, its b (ISO 13789), its ground U (ISO 13370) and its UA are the calculation's
 own figures, never a second formula. Upgrades and packages are left out of that run: the
@@ -18,7 +18,7 @@ from server.errors import InputError
 from server.models import House, Surface
 from server.services import houses as svc
 from server.services.catalog import Catalog
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 
 GROUND_KINDS = ("slab", "basement_floor", "basement_wall")

@@ -12,7 +12,7 @@ Rules decided here:
 * Only bills that compute are stored: :func:`save_bills` fits them with the house's units and
   heating fuel (the one code path of ``calc/bills``) and refuses them otherwise, naming the
   ``bills.`` field (HTTP 422). The page keeps what was typed on a refusal; the readers of
-  :mod:`server.services.bill_readers` have already marked each wrong row.
+  :mod:`server.services.bill_rows` have already marked each wrong row.
 * ``fuel`` is stored explicitly (the house's heating fuel when not given), so a later change
   of heating system gives a clear ``bills.fuel`` message instead of reading therms as kWh.
 * ``normal_temperatures`` (the typical year the bills are normalised to) are stored with the

@@ -8,11 +8,15 @@ from pydantic import ValidationError
 from sqlalchemy.orm import Session
 
 from server.documents.house import HouseDocument
+from server.documents.house_photos import HouseExport
 from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.houses import create_house
 from server.services.library import catalog_for
+from server.services.photo_document import import_photos, photo_entries
+from server.services.photo_store import PhotoStore
+from server.services.photos import PhotoLimits
 from server.services.price_book import items_for_house, priced_document
 
 #: defaults for a house whose systems are not entered yet (common practice, shown as assumptions)
@@ -119,11 +123,34 @@ def _climate(stored: dict[str, Any] | None) -> dict[str, Any]:
     return out
 
 
-def import_house(*, session: Session, organization_id: int, document: HouseDocument) -> House:
-    """Create a saved house from a document (the inverse of :func:`house_document`).
+def house_export(
+    house: House, *, session: Session, store: PhotoStore, photos: bool = True
+) -> dict[str, Any]:
+    """The saved house's export as JSON: its document, and a ``photos`` list when it has
+    photos and ``photos`` is true (:mod:`server.documents.house_photos`)."""
+    body = house_document(house).model_dump(mode="json")
+    entries = photo_entries(session=session, store=store, house=house) if photos else []
+    if entries:
+        body["photos"] = entries
+    return body
+
+
+def import_house(
+    *,
+    session: Session,
+    organization_id: int,
+    document: HouseDocument,
+    photos_into: tuple[PhotoStore, PhotoLimits] | None = None,
+) -> House:
+    """Create a saved house from a document (the inverse of :func:`house_document`); the
+    photos of an export (:class:`HouseExport`) go into ``photos_into``'s directory, with its
+    limits (without it, a document with photos is refused).
 
     Nothing is stored for a document that cannot be computed: see :func:`check_computable`.
     """
+    entries = document.photos if isinstance(document, HouseExport) else []
+    if entries and photos_into is None:
+        raise InputError("photos", "photos cannot be imported here")
     check_computable(session=session, organization_id=organization_id, document=document)
     house = create_house(
         session=session,
@@ -184,13 +211,17 @@ def import_house(*, session: Session, organization_id: int, document: HouseDocum
             )
         )
     session.flush()
+    if entries and photos_into is not None:
+        session.refresh(house, ["surfaces"])
+        import_photos(session=session, store=photos_into[0], limits=photos_into[1], house=house,
+                      entries=entries)  # fmt: skip
     return house
 
 
 def check_computable(*, session: Session, organization_id: int, document: HouseDocument) -> None:
     """Refuse a document the firm's pages could not compute, naming the field.
 
-    The whole document goes through :func:`server.services.house.compute_house` (the one
+    The whole document goes through :func:`server.services.comparison.compute_house` (the one
     code path of calc/house and the compare page) against the firm's catalog: the built-in
     library plus the firm's own materials. So every material slug (homogeneous, cavity and
     framing layers, of surfaces and upgrades), every upgrade's ``surface``, every package's

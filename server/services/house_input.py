@@ -1,6 +1,6 @@
 """House document -> the pure house model (:mod:`server.physics.house_model`): the checks of
 cross-references, each surface's U (assembly calculator, ISO 13370 ground), the air leakage and
-the systems, in SI. Rules: see :mod:`server.services.house`."""
+the systems, in SI. Rules: see :mod:`server.services.comparison`."""
 
 from __future__ import annotations
 

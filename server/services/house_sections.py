@@ -7,11 +7,13 @@ form or a save that lost a race raises :class:`~server.errors.Conflict` and stor
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import Any
+from typing import Any, BinaryIO
 
 from server.documents.climate import DegreeDaysResult
+from server.errors import InputError
 from server.models import House
-from server.services.bill_weather import climate_normals
+from server.services.bill_weather import climate_normals, normal_daily_means
+from server.services.climate import compute_degree_days
 from server.services.houses import check_version, touch
 
 #: the House columns the settings sections are stored in, by section
@@ -126,3 +128,32 @@ def set_climate_from_weather(
     )
     house.climate = {**kept, **climate}
     touch(house)
+
+
+def set_climate_from_weather_file(
+    *, house: House, file: BinaryIO, file_name: str, expected_version: int | None
+) -> DegreeDaysResult:
+    """Read a weather file (EPW, TMY3 or CSV, a seekable binary file read one bounded line at a
+    time) into the house's climate, with its normal year for the bills when the file gives
+    every calendar day; returns what the file gave.
+
+    Raises
+    ------
+    Conflict
+        The form was loaded from an older version (before the file is read), or another save
+        came first.
+    InputError
+        The file cannot be read as weather data.
+    """
+    check_version(house, expected_version)
+    result = compute_degree_days(file, units=house.units, heating_base=None, cooling_base=None)
+    file.seek(0)
+    try:  # the 365 normal daily means [°C]; without them the degree-days are still used
+        normals: tuple[float, ...] | None = normal_daily_means(
+            file, default_unit="F" if house.units == "ip" else "C"
+        )
+    except InputError:
+        normals = None
+    set_climate_from_weather(house=house, result=result, file_name=file_name,
+                             expected_version=expected_version, normal_daily_means_c=normals)  # fmt: skip
+    return result

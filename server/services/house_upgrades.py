@@ -1,5 +1,5 @@
 """Each upgrade of a house document -> its pure upgrade (:mod:`server.physics.house_model`), with
-the problems and warnings the rules of :mod:`server.services.house` name."""
+the problems and warnings the rules of :mod:`server.services.comparison` name."""
 
 from __future__ import annotations
 

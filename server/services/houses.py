@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from typing import Any
 
@@ -18,6 +17,7 @@ from server.services import house_changes  # noqa: F401  (a child row's change t
 from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
 from server.services.code_check import code_verdict
+from server.services.slugs import unique_slug
 from server.services.typical import typical_assemblies
 
 SURFACE_KINDS = {
@@ -171,15 +171,6 @@ def write_or_conflict(session: Session, house: House) -> None:
         raise Conflict(stored or 0) from exc
 
 
-def unique_slug(text: str, taken: set[str], fallback: str = "surface") -> str:
-    """A lower-case-hyphen id for ``text`` not in ``taken`` (``name``, ``name-2``, ...)."""
-    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or fallback
-    slug, n = base, 2
-    while slug in taken:
-        slug, n = f"{base}-{n}", n + 1
-    return slug
-
-
 def add_surface(
     *,
     session: Session,
@@ -214,7 +205,7 @@ def add_surface(
     surface = Surface(
         house=house,
         position=len(house.surfaces),
-        slug=unique_slug(name, {s.slug for s in house.surfaces}),
+        slug=unique_slug(name, {s.slug for s in house.surfaces}, fallback="surface"),
         name=name[:200],
         kind=kind,
         area=area,
@@ -345,7 +336,7 @@ def add_pipe_run(
         raise InputError(where, str(err["msg"]).removeprefix("Value error, ")) from None
     name = name.strip() or "Pipe run"
     surface = Surface(
-        house=house, position=len(house.surfaces), slug=unique_slug(name, {s.slug for s in house.surfaces}),
+        house=house, position=len(house.surfaces), slug=unique_slug(name, {s.slug for s in house.surfaces}, fallback="surface"),
         name=name[:200], kind="pipe_run", area=None, length=length, assembly={},
         details={"pipe": spec, "hours_per_year": hours_per_year},
     )  # fmt: skip

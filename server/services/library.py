@@ -9,6 +9,7 @@ from server.errors import InputError
 from server.models import Material
 from server.services.catalog import Catalog, MaterialSpec, builtin_catalog
 from server.services.material_data import load_builtin_materials
+from server.services.slugs import unique_slug
 
 _FIELDS = (
     "name",
@@ -74,7 +75,6 @@ def add_material(
         raise InputError("r", "must be greater than zero")
     if not source.strip():
         raise InputError("source", "say where the value comes from (a data sheet, a handbook...)")
-    slug = _slugify(name)
     taken = set(
         session.scalars(
             select(Material.slug).where(
@@ -82,9 +82,7 @@ def add_material(
             )
         )
     )
-    base, n = slug, 2
-    while slug in taken:
-        slug, n = f"{base}-{n}", n + 1
+    slug = unique_slug(name, taken, fallback="material", max_length=70)
     material = Material(
         organization_id=organization_id,
         slug=slug,
@@ -122,10 +120,3 @@ def catalog_for(*, session: Session, organization_id: int) -> Catalog:
             source=m.source,
         )
     return merged
-
-
-def _slugify(text: str) -> str:
-    import re
-
-    slug = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")
-    return (slug or "material")[:70]

@@ -10,7 +10,13 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from server.physics import pipe as physics
-from server.physics.pipe import CautionKind, PipeCaution, PipeHeatLoss, PipeInputError, Problem
+from server.physics.pipe_types import (
+    CautionKind,
+    PipeCaution,
+    PipeHeatLoss,
+    PipeInputError,
+    Problem,
+)
 from server.physics.units import FOOT_M, INCH_M, Q_LENGTH_IP_IN_SI, c_to_f, k_si_to_ip, u_si_to_ip
 
 

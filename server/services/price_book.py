@@ -17,7 +17,6 @@ An upgrade document links to an item with ``"price_item": "<slug>"``; :func:`app
 from __future__ import annotations
 
 import math
-import re
 from typing import Any, Literal, Protocol
 
 from sqlalchemy import select
@@ -27,6 +26,7 @@ from server.errors import FieldError, InputError
 from server.models import House, PriceBookItem, Upgrade, utcnow
 from server.physics.units import FOOT_M, SQFT_M2
 from server.services.houses import NotFound, check_version, touch
+from server.services.slugs import unique_slug
 
 Basis = Literal["per_area", "per_length", "fixed"]
 BASES: dict[str, str] = {
@@ -290,14 +290,6 @@ def _validated(
             "notes": (notes or "").strip()}  # fmt: skip
 
 
-def _slug(text: str, taken: set[str]) -> str:
-    base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-")[:60] or "item"
-    slug, n = base, 2
-    while slug in taken:
-        slug, n = f"{base}-{n}", n + 1
-    return slug
-
-
 def add_item(
     *, session: Session, organization_id: int, name: str, upgrade_type: str, basis: str,
     units: str = "ip", unit_cost: float = 0.0, fixed_cost: float = 0.0, notes: str = "",
@@ -307,7 +299,9 @@ def add_item(
                         unit_cost=unit_cost, fixed_cost=fixed_cost, notes=notes)  # fmt: skip
     taken = {i.slug for i in list_items(session=session, organization_id=organization_id)}
     item = PriceBookItem(
-        organization_id=organization_id, slug=_slug(values["name"], taken), **values
+        organization_id=organization_id,
+        slug=unique_slug(values["name"], taken, fallback="item"),
+        **values,
     )
     session.add(item)
     session.flush()

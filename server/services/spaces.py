@@ -2,7 +2,7 @@
 
 Stored in ``House.spaces`` as the house document's ``spaces`` (:class:`SpaceIn` dumps, numbers
 in the house's units); what each surface faces is ``Surface.details["adjacent"]``. The b of
-each space is computed by :func:`server.services.house.compute_house` (see
+each space is computed by :func:`server.services.comparison.compute_house` (see
 :mod:`server.physics.buffer_spaces`), never here.
 """
 
@@ -22,8 +22,9 @@ from server.errors import InputError, NotFound
 from server.models import House
 from server.services.assembly import evaluate_assembly
 from server.services.convert import convert_value
-from server.services.houses import check_version, touch, unique_slug
+from server.services.houses import check_version, touch
 from server.services.number_text import NumberTextError, read_decimal
+from server.services.slugs import unique_slug
 from server.services.typical import typical_assemblies
 
 SPACE_KINDS = {

@@ -18,7 +18,7 @@ what a saved surface stores, in the house's units, as the house document expects
   layers already entered are kept.
 
 Before anything is stored the surface is computed alone through
-:func:`server.services.house.compute_house` (the calc/house code path), so a save never stores
+:func:`server.services.comparison.compute_house` (the calc/house code path), so a save never stores
 what the house cannot compute.
 """
 
@@ -39,7 +39,7 @@ from server.physics import ground as ground_physics
 from server.physics.units import INCH_M, from_si
 from server.services import houses as svc
 from server.services.catalog import Catalog
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import DEFAULT_CLIMATE, DEFAULT_HEATING
 from server.services.number_text import NumberTextError, read_decimal, read_length
 

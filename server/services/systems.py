@@ -15,30 +15,60 @@ Rules decided here (each stated on the result's assumptions when it applies):
   degree-day load, so a heat-pump house and a furnace house compare on the same load. Without
   bins the typed ``heating.efficiency`` (seasonal COP) is used, with a warning.
 * Pipe runs: see :mod:`server.physics.pipe_runs`.
+
+The heat pump's rating and curves are in :mod:`server.services.heat_pump_rating`, the figures
+and assumptions of the result in :mod:`server.services.system_figures`; this module re-exports
+them (importers use ``systems.<name>``).
 """
 
 from __future__ import annotations
 
-import json
-from functools import lru_cache
-from pathlib import Path
 from typing import Any
 
 from server.documents.house import HouseDocument, PipeIn, UpgradeIn
-from server.documents.systems import DistributionFigures, HeatPumpFigures
 from server.errors import InputError
 from server.physics import ducts as duct_physics
-from server.physics import heat_pump as hp
 from server.physics import pipe_runs
 from server.physics import systems as sysm
 from server.physics import ventilation as vent
 from server.physics.energy import AIR_HEAT_CAPACITY_SI
-from server.physics.fuels import KWH_J, fuel_by_slug
-from server.physics.units import DELTA_F_K, from_si, temp_from_c, temp_to_c, to_si
+from server.physics.fuels import fuel_by_slug
+from server.physics.units import DELTA_F_K, temp_to_c, to_si
+from server.services.heat_pump_rating import heat_pump_curves, heat_pump_rating
+from server.services.system_figures import (
+    assumptions,
+    design_distribution_efficiency,
+    figures,
+    n_factor,
+)
+
+#: this module's names and those it re-exports (importers use ``systems.<name>``)
+__all__ = [
+    "DEFAULT_BASE_C",
+    "DEFAULT_RISE_K",
+    "HOUSE_ONLY_PIPE_FIELDS",
+    "LITRE_PER_S_M3",
+    "assumptions",
+    "build_systems",
+    "design_distribution_efficiency",
+    "duct_upgrade",
+    "duct_upgrade_notes",
+    "figures",
+    "flow_si",
+    "heat_pump_curves",
+    "heat_pump_rating",
+    "indoor_c",
+    "n_factor",
+    "pipe_location",
+    "pipe_request_fields",
+    "water_heater",
+]
+
 
 #: pipe fields of a house document that /calc/pipe does not take
 HOUSE_ONLY_PIPE_FIELDS = ("material", "service", "location", "water_heater", "heating_season_share")
-CURVES_FILE = Path(__file__).resolve().parent.parent / "data" / "heat_pump_curves.json"
+
+
 #: one L/s [m³/s]; ft³/min comes from :data:`server.physics.energy.CFM_M3_PER_S`
 LITRE_PER_S_M3 = 1e-3
 #: equipment temperature rise when neither flow nor capacity tells it [K]: 50 °F for a
@@ -46,63 +76,6 @@ LITRE_PER_S_M3 = 1e-3
 DEFAULT_RISE_K = {"heat_pump": 25.0 * DELTA_F_K, "other": 50.0 * DELTA_F_K}
 #: default heating base when the climate gives none [°C]: 65 °F / 18.3 °C (API contract)
 DEFAULT_BASE_C = {"ip": (65.0 - 32.0) * 5.0 / 9.0, "si": 18.3}
-
-DUCT_ASSUMPTION = (
-    "Ducts (ANSI/ASHRAE Standard 152, seasonal distribution efficiency): η_dist = DE + "
-    "F_regain·(1 − DE); a duct in a buffer space runs at T_in − b·(T_in − T_out) and its losses "
-    "come back in the share 1 − b; heating energy = load / (η_dist · η_equipment); design heat "
-    "loss includes the duct losses at the design temperature. Infiltration induced by duct "
-    "leakage is not counted."
-)
-HEAT_PUMP_ASSUMPTION = (
-    "Heat pump by temperature bins: capacity and COP from building-energy-standards-data "
-    "curves HPACHeatCapFT and HPACHeatEIRFT, scaled to the rating at 47 °F (and 17 °F when "
-    "given); the load UA·max(0, T_balance − T_out) beyond the capacity is met by electric "
-    "resistance backup; the bins give the seasonal COP applied to the degree-day load. No "
-    "cycling losses."
-)
-VENTILATION_ASSUMPTION = (
-    "Mechanical ventilation runs continuously: UA_air = ρc·[Q_balanced·(1 − ε) + "
-    "sqrt(Q_unbalanced² + Q_infiltration²)] (ASHRAE Handbook—Fundamentals ch. 16)."
-)
-ALTITUDE_ASSUMPTION = (
-    "Altitude: the air's heat capacity is 0.018 Btu/(ft³·°F) × p(z)/p₀ with the standard "
-    "atmosphere (ASHRAE Handbook—Fundamentals ch. 1 eq. 3); buffer spaces' air changes keep the "
-    "sea-level figure."
-)
-PIPE_ASSUMPTION = (
-    "Pipe runs that say where they run: heating water counts b of its loss (none in the "
-    "conditioned space, where it heats the house); domestic hot water counts 1 − s·(1 − b) (s: "
-    "share of its hot hours in the heating season, when its loss heats the house and is no "
-    "saving) and is bought at its water heater."
-)
-
-
-@lru_cache(maxsize=1)
-def heat_pump_curves() -> hp.Curves:
-    """The copied performance curves (``server/data/heat_pump_curves.json``)."""
-    data = json.loads(CURVES_FILE.read_text(encoding="utf-8"))["curves"]
-
-    def cubic(name: str) -> hp.Cubic:
-        row = data[name]
-        return hp.Cubic(
-            name,
-            (row["coeff_1"], row["coeff_2"], row["coeff_3"], row["coeff_4"]),
-            float(row["minimum_independent_variable_1"]),
-            float(row["maximum_independent_variable_1"]),
-        )
-
-    return hp.Curves(cubic("HPACHeatCapFT"), cubic("HPACHeatEIRFT"))
-
-
-@lru_cache(maxsize=1)
-def curves_source() -> str:
-    """The curves' names, package and version, as the result states them."""
-    source = json.loads(CURVES_FILE.read_text(encoding="utf-8"))["source"]
-    return (
-        f"HPACHeatCapFT and HPACHeatEIRFT of {source['package']} {source['version']} "
-        f"({source['file'].rsplit('/', 1)[-1]})"
-    )
 
 
 def flow_si(value: float, units: str) -> float:
@@ -125,23 +98,6 @@ def _location(doc: HouseDocument, where: str, field: str, allowed: tuple[str, ..
         choices = ", ".join([*allowed, *spaces])
         raise InputError(field, f"there is no space '{where}' (choose one of: {choices})")
     return where
-
-
-def n_factor(doc: HouseDocument) -> tuple[float, str] | None:
-    """The N-factor used and its source, or None without air leakage."""
-    air = doc.air_leakage
-    if air is None:
-        return None
-    table = air.n_factor_table
-    if table is None:
-        typed = "n_factor" in air.model_fields_set
-        return air.n_factor, "given in the document" if typed else "default 18 (common practice)"
-    try:
-        value = vent.n_factor(table.zone, table.stories, table.shielding)
-    except ValueError as exc:
-        raise InputError("air_leakage.n_factor_table", str(exc)) from None
-    where = f"zone {table.zone}, {table.stories:g} stories, {table.shielding.replace('_', ' ')}"
-    return value, f"{vent.N_FACTOR_SOURCE} ({where})"
 
 
 def build_systems(doc: HouseDocument, warnings: list[str]) -> sysm.Systems | None:
@@ -234,45 +190,6 @@ def build_systems(doc: HouseDocument, warnings: list[str]) -> sysm.Systems | Non
     )
 
 
-def heat_pump_rating(doc: HouseDocument) -> hp.HeatPumpRating:
-    """The rating in SI, from HSPF, HSPF2 or COP_47 and the capacities."""
-    units, heating = doc.units, doc.heating
-    rated = heating.heat_pump
-    assert rated is not None
-    field = "heating.heat_pump"
-    if rated.cop_47 is not None:
-        cop47 = rated.cop_47
-    else:
-        try:
-            hspf = rated.hspf if rated.hspf is not None else hp.hspf2_to_hspf(rated.hspf2 or 0.0)
-            cop47 = hp.hspf_to_cop47(hspf)
-        except ValueError as exc:
-            name = "hspf" if rated.hspf is not None else "hspf2"
-            raise InputError(f"{field}.{name}", str(exc)) from None
-    capacity = rated.capacity_47 if rated.capacity_47 is not None else heating.output_capacity
-    if capacity is None:
-        raise InputError(
-            f"{field}.capacity_47", "give the capacity at 47 °F (or heating.output_capacity)"
-        )
-    rating = hp.HeatPumpRating(
-        capacity_47_w=to_si(capacity, "power", units),
-        cop_47=cop47,
-        capacity_17_w=None
-        if rated.capacity_17 is None
-        else to_si(rated.capacity_17, "power", units),
-        cop_17=rated.cop_17,
-        backup_efficiency=rated.backup_efficiency,
-        cutoff_c=None
-        if rated.cutoff_temperature is None
-        else temp_to_c(rated.cutoff_temperature, units),
-    )
-    try:
-        hp.check_rating(rating, heat_pump_curves())
-    except ValueError as exc:
-        raise InputError(f"{field}.cop_17", str(exc)) from None
-    return rating
-
-
 def duct_upgrade(doc: HouseDocument, index: int, upgrade: UpgradeIn) -> sysm.DuctUpgrade:
     """The pure duct sealing or insulation upgrade (the house must describe ducts)."""
     ducts = doc.heating.ducts
@@ -360,72 +277,3 @@ def water_heater(pipe: PipeIn) -> pipe_runs.WaterHeater | None:
     return pipe_runs.WaterHeater(
         fuel_by_slug(heater.fuel), heater.efficiency, heater.price, heater.co2_per_unit
     )
-
-
-def figures(doc: HouseDocument, energy: Any, design_loss_w: float | None) -> dict[str, Any]:
-    """The HouseFigures fields of the systems for one variant, in the document's units."""
-    units = doc.units
-    out: dict[str, Any] = {"ua_ventilation": from_si(energy.ventilation_ua_w_per_k, "ua", units)}
-    found = n_factor(doc)
-    if found is not None:
-        out["n_factor"], out["n_factor_source"] = found
-    out["water_heating_cost"] = energy.water_heating_cost
-    system = energy.systems
-    if system is None:
-        return out
-    dist, design = system.distribution, system.design_distribution
-    if dist is not None and system.season_outdoor_c is not None:
-        loss = None
-        if design is not None and design_loss_w is not None and design.efficiency > 0:
-            loss = from_si(design_loss_w * (1 / design.efficiency - 1), "power", units)
-        out["distribution"] = DistributionFigures(
-            delivery_effectiveness=dist.delivery_effectiveness,
-            regain=dist.regain,
-            efficiency=dist.efficiency,
-            season_outdoor_temperature=temp_from_c(system.season_outdoor_c, units),
-            supply_temperature=temp_from_c(dist.supply_temperature_c, units),
-            return_temperature=temp_from_c(dist.return_temperature_c, units),
-            design_efficiency=None if design is None else design.efficiency,
-            design_loss=loss,
-        )
-    rated = doc.heating.heat_pump
-    if rated is not None:
-        rating = heat_pump_rating(doc)
-        season = system.heat_pump
-        out["heat_pump"] = HeatPumpFigures(
-            seasonal_cop=doc.heating.efficiency if season is None else season.seasonal_cop,
-            rated_cop_47=rating.cop_47,
-            capacity_47=from_si(rating.capacity_47_w, "power", units),
-            heat_pump_electricity=0.0 if season is None else season.heat_pump_electricity_j / KWH_J,
-            backup_electricity=0.0 if season is None else season.backup_electricity_j / KWH_J,
-            backup_share=0.0 if season is None else season.backup_share,
-            balance_point=None
-            if season is None or season.balance_point_c is None
-            else temp_from_c(season.balance_point_c, units),
-            bins_used=season is not None,
-            curves=curves_source(),
-        )
-    return out
-
-
-def design_distribution_efficiency(energy: Any) -> float:
-    """η_dist at design of one variant (1 without ducts or a design temperature)."""
-    system = energy.systems
-    if system is None or system.design_distribution is None:
-        return 1.0
-    return max(system.design_distribution.efficiency, 1e-9)
-
-
-def assumptions(doc: HouseDocument) -> list[str]:
-    notes = []
-    if doc.heating.ducts is not None:
-        notes.append(DUCT_ASSUMPTION)
-    if doc.heating.heat_pump is not None:
-        notes.append(HEAT_PUMP_ASSUMPTION)
-    if doc.mechanical_ventilation is not None:
-        notes.append(VENTILATION_ASSUMPTION)
-    if doc.climate.elevation is not None:
-        notes.append(ALTITUDE_ASSUMPTION)
-    if any(s.pipe is not None and s.pipe.location is not None for s in doc.surfaces):
-        notes.append(PIPE_ASSUMPTION)
-    return notes

@@ -25,7 +25,7 @@ from server.errors import InputError
 from server.models import House, Surface, Upgrade
 from server.physics.units import FOOT_M, INCH_M
 from server.services.catalog import Catalog
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 from server.services.number_text import NumberTextError, read_decimal, read_length
 

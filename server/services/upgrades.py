@@ -14,7 +14,8 @@ from server.errors import InputError
 from server.models import House, Package, Surface, Upgrade
 from server.services import upgrade_forms as forms
 from server.services.catalog import Catalog
-from server.services.houses import NotFound, check_version, checked_assembly, touch, unique_slug
+from server.services.houses import NotFound, check_version, checked_assembly, touch
+from server.services.slugs import unique_slug
 from server.services.typical import typical_assemblies
 
 #: what an upgrade of each kind (``upgrades.kind``) is priced per besides its fixed part, as
@@ -32,10 +33,6 @@ ASSEMBLY_KINDS = ("assembly", "window")
 def edits_assembly(upgrade: Upgrade) -> bool:
     """Whether the upgrade has an assembly for the layer editor (not an r or u alone)."""
     return upgrade.kind in ASSEMBLY_KINDS and upgrade.document.get("assembly") is not None
-
-
-def _slug(text: str, taken: set[str]) -> str:
-    return unique_slug(text, taken, fallback="upgrade")
 
 
 def get_upgrade(house: House, upgrade_id: int) -> Upgrade:
@@ -82,7 +79,7 @@ def add_assembly_upgrade(
     name = name.strip() or f"{surface.name}: upgrade"
     upgrade = Upgrade(
         house=house, surface_id=surface.id, position=len(house.upgrades),
-        slug=_slug(name, {u.slug for u in house.upgrades}), name=name[:200], kind="assembly",
+        slug=unique_slug(name, {u.slug for u in house.upgrades}, fallback="upgrade"), name=name[:200], kind="assembly",
         document={"surface": surface.slug, "assembly": assembly, "cost": {"fixed": 0.0, "per_area": 0.0},
                   "rebate": 0.0, "life_years": 30.0},
     )  # fmt: skip
@@ -104,7 +101,7 @@ def add_air_sealing(
         raise InputError("cfm50_after", f"the target must be below the as-found {found:,.0f} CFM50")
     name = name.strip() or f"Air sealing to {cfm50_after:,.0f} CFM50"
     doc = {"cfm50_after": cfm50_after, **_costs(fixed, 0.0, rebate, life_years)}
-    upgrade = Upgrade(house=house, position=len(house.upgrades), slug=_slug(name, {u.slug for u in house.upgrades}),
+    upgrade = Upgrade(house=house, position=len(house.upgrades), slug=unique_slug(name, {u.slug for u in house.upgrades}, fallback="upgrade"),
                       name=name[:200], kind="air_sealing", document=doc)  # fmt: skip
     session.add(upgrade)
     touch(house)
@@ -129,7 +126,7 @@ def add_pipe_insulation(
     doc = {"surface": surface.slug, "pipe_layers": [*existing, {"thickness": thickness, "conductivity": conductivity}],
            "cost": {"fixed": 0.0, "per_length": 0.0}, "rebate": 0.0, "life_years": 20.0}  # fmt: skip
     upgrade = Upgrade(house=house, surface_id=surface.id, position=len(house.upgrades), kind="pipe_insulation",
-                      slug=_slug(name, {u.slug for u in house.upgrades}), name=name[:200], document=doc)  # fmt: skip
+                      slug=unique_slug(name, {u.slug for u in house.upgrades}, fallback="upgrade"), name=name[:200], document=doc)  # fmt: skip
     session.add(upgrade)
     touch(house)
     session.flush()
@@ -159,7 +156,7 @@ def add_kind_upgrade(
     costs = _costs(fixed, per_area if PRICED_PER.get(kind) else 0.0, 0.0, forms.LIFE_YEARS[part])
     doc = forms.new_document(part, change, surface=surface, costs=costs)
     name = name.strip() or forms.DEFAULT_NAMES[part].format(surface=surface.name if surface else "")
-    slug = _slug(name, {u.slug for u in house.upgrades})
+    slug = unique_slug(name, {u.slug for u in house.upgrades}, fallback="upgrade")
     forms.check_in_house(house, slug=slug, kind=kind, document=doc, catalog=catalog)
     upgrade = Upgrade(house=house, surface_id=surface.id if surface else None, position=len(house.upgrades),
                       slug=slug, name=name[:200], kind=kind, document=doc)  # fmt: skip
@@ -247,7 +244,7 @@ def add_package(
             "sealing and one duct insulation)",
         )
     name = name.strip() or " + ".join(known[s].name for s in chosen)[:200]
-    package = Package(house=house, position=len(house.packages), slug=_slug(name, {p.slug for p in house.packages}),
+    package = Package(house=house, position=len(house.packages), slug=unique_slug(name, {p.slug for p in house.packages}, fallback="upgrade"),
                       name=name[:200], upgrade_slugs=chosen)  # fmt: skip
     session.add(package)
     touch(house)

@@ -38,7 +38,7 @@ from server.documents.solar import SolarIn, SolarRowIn
 from server.physics import solar
 from server.physics.fuels import KWH_J
 from server.physics.units import BTU_J, SQFT_M2, UnitSystem
-from server.services.weather_files import MAX_DATA_LINES, MAX_LINE_CHARS
+from server.services.weather_lines import MAX_DATA_LINES, MAX_LINE_CHARS
 
 #: missing-value markers: EPW irradiance 9999, EPW dry-bulb 99.9, TMY3 -9900 (from memory)
 EPW_MISSING_IRRADIANCE = 9999.0
@@ -72,7 +72,7 @@ class _Hours:
 
 
 def _lines(data: bytes | BinaryIO) -> Iterator[str]:
-    """Text lines, bounded as :mod:`server.services.weather_files` bounds them."""
+    """Text lines, bounded as :mod:`server.services.weather_lines` bounds them."""
     if isinstance(data, bytes | bytearray):
         stream: BinaryIO = io.BytesIO(data)
     else:

@@ -1,15 +1,15 @@
 """The last word on saves that lost a race: 409 "someone else saved first", never a 500.
 
 Saves of a house go through :func:`server.services.houses.touch`, which writes at once and
-turns a lost race into :class:`~server.errors.Conflict`; each page answers that with
-:func:`stale_form`'s message beside the form (what was typed kept) and the status of
-:func:`rejected_status`. This handler is for the rest: a database refusal that means another
-request got there first (:func:`server.db.lost_race`:
-a unique name taken a moment before, SQLite's "database is locked", a PostgreSQL
-serialization failure or deadlock, a version miss outside ``touch``), and a row that another
-request deleted while this one was showing it (``ObjectDeletedError`` when the page reloads
-it). The request's transaction has been rolled back by then (``get_session``), so nothing of
-it was stored; the answer says so and touches no database.
+turns a lost race into :class:`~server.errors.Conflict`; each page answers that through
+:func:`server.web.saving.save_or_rerender`: :func:`stale_form`'s message beside the form
+(what was typed kept) and 409. This handler is for the rest: a database refusal that means
+another request got there first (:func:`server.db.lost_race`: a unique name taken a moment
+before, SQLite's "database is locked", a PostgreSQL serialization failure or deadlock, a
+version miss outside ``touch``), and a row that another request deleted while this one was
+showing it (``ObjectDeletedError`` when the page reloads it). The request's transaction has
+been rolled back by then (``get_session``), so nothing of it was stored; the answer says so
+and touches no database.
 """
 
 from __future__ import annotations
@@ -33,11 +33,6 @@ def stale_form(done: str = "nothing was saved", *, then: str = KEPT) -> str:
     """The one message for a form that met :class:`~server.errors.Conflict`: who, what was
     not done (``done``), and what to do next (``then``)."""
     return f"Someone else saved this house after you opened it, so {done}. {then}"
-
-
-def rejected_status(errors: dict[str, str], *, conflict_key: str = "form") -> int:
-    """409 when the form lost to someone else's save (``errors[conflict_key]``), else 422."""
-    return 409 if conflict_key in errors else 422
 
 
 PAGE = """{% extends "base.html" %}{% block title %}Not saved{% endblock %}

@@ -7,10 +7,9 @@ from typing import Any
 
 from server.documents.assembly import AssemblyResult
 from server.documents.common import Units
-from server.errors import Conflict, InputError
+from server.errors import InputError
 from server.services.number_text import NumberTextError, read_integer
 from server.services.typical import typical_assemblies
-from server.web.conflicts import stale_form
 from server.web.forms import form_version
 from server.web.layer_form import (
     AssemblyForm,
@@ -20,6 +19,7 @@ from server.web.layer_form import (
     form_from_document,
     form_from_post,
 )
+from server.web.saving import save_or_rerender
 
 MAX_LAYERS = 40
 SaveFn = Callable[[dict[str, Any], int | None], AssemblyResult]
@@ -75,22 +75,22 @@ def run_editor(
     result = None
     status = 200
     doc = document_from_form(form, units)
+
+    def refused(errors: dict[str, str], refusal: int) -> tuple[AssemblyResult | None, int]:
+        for field, text in errors.items():  # beside the layer fields; the conflict at the head
+            attach_error(form, field, text)
+        return None, refusal
+
     if version_error:
         form.errors["version"] = version_error
         status = 422
     elif doc is None:
         status = 422
     else:
-        try:
-            result = save(doc, version)
+        result, status = save_or_rerender(call=lambda: save(doc, version), rerender=refused,
+                                          saved=lambda saved: (saved, 200), conflict_key="version")  # fmt: skip
+        if status == 200:
             message = message or "Saved."
-        except InputError as exc:
-            for err in exc.errors():
-                attach_error(form, err.field, err.message)
-            status = 422
-        except Conflict:
-            form.errors["version"] = stale_form()
-            status = 409
     if status != 200:
         message = "Not saved: check the fields marked below."
     return form, result, message, status

@@ -25,7 +25,7 @@ from sqlalchemy import event, func, select
 from server.db import session_scope
 from server.documents.house import HouseDocument
 from server.models import House
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.library import add_material, catalog_for
 from tests.conftest import Account
 

@@ -13,8 +13,8 @@ from sqlalchemy import select
 
 from server.db import make_engine, make_session_factory, session_scope
 from server.models import House
+from server.services.comparison import compute_house
 from server.services.demo import DEMO_LABEL
-from server.services.house import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 

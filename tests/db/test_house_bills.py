@@ -17,9 +17,9 @@ from fastapi.testclient import TestClient
 from server.db import session_scope
 from server.errors import Conflict, InputError
 from server.models import House, Surface
-from server.services.bill_readers import read_bill_text
+from server.services.bill_table import read_bill_text
 from server.services.bill_weather import climate_normals, normal_daily_means, weather_from_files
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_bills import save_bills
 from server.services.house_document import house_document
 from server.services.house_units import switch_units

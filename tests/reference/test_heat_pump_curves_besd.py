@@ -17,7 +17,7 @@ import pytest
 
 from server.physics import heat_pump as hp
 from server.physics.units import HOUR_S, f_to_c
-from server.services.systems import CURVES_FILE, heat_pump_curves
+from server.services.heat_pump_rating import CURVES_FILE, heat_pump_curves
 
 PACKAGE_FILE = (
     pathlib.Path(building_energy_standards_data.__file__).parent

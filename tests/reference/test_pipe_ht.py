@@ -23,12 +23,9 @@ from server.physics.convection import (
     air_properties,
     nusselt_churchill_chu,
 )
-from server.physics.pipe import (
-    PipeLayer,
-    PipeRun,
-    cylinder_resistance_per_length,
-    pipe_heat_loss,
-)
+from server.physics.pipe import pipe_heat_loss
+from server.physics.pipe_resistance import cylinder_resistance_per_length
+from server.physics.pipe_types import PipeLayer, PipeRun
 
 HT_INNER_FILM_NEGLECTED = 1e12  # W/(m²·K): ht's inner film term D_ratio/hi becomes ~1e-12
 

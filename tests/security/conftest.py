@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hashlib
+import io
 import secrets
 from collections.abc import Iterator
 from dataclasses import dataclass
@@ -10,12 +11,15 @@ from datetime import timedelta
 
 import pytest
 from fastapi.testclient import TestClient
+from PIL import Image
 from sqlalchemy import select
 
 from server import security
 from server.db import session_scope
 from server.models import House, Material, PriceBookItem, ShareLink, Surface, Upgrade, utcnow
 from server.services.demo import load_demo_house
+from server.services.photo_store import PhotoStore
+from server.services.photos import PhotoLimits, add_photo
 from tests.conftest import CHEAP_HASHER, Account, make_account, sign_in
 
 #: for checks that do not depend on the database: run on SQLite only (the others on both)
@@ -44,6 +48,7 @@ class FirmAObjects:
     user_id: int
     material_id: int
     space_id: str
+    photo_id: int = 0
 
 
 @pytest.fixture
@@ -95,8 +100,17 @@ def firm_a_objects(app, firm_a: Account, staff_a: Account) -> FirmAObjects:  # t
         s.flush()
         assert surface_id is not None and upgrade_id is not None and house.spaces
         space_id = house.spaces[0]["id"]
+        photo = add_photo(session=s, store=PhotoStore(app.state.settings.photo_path()),
+                          limits=PhotoLimits.of(app.state.settings), house=house,
+                          data=_tiny_jpeg(), caption="Firm A secret board in the attic")  # fmt: skip
         return FirmAObjects(house_id, surface_id, upgrade_id, package_slug, link.id, item.id,
-                            staff_a.user_id, material.id, space_id)  # fmt: skip
+                            staff_a.user_id, material.id, space_id, photo.id)  # fmt: skip
+
+
+def _tiny_jpeg() -> bytes:
+    out = io.BytesIO()
+    Image.new("RGB", (40, 30), (90, 90, 90)).save(out, format="JPEG")
+    return out.getvalue()
 
 
 def assert_no_firm_a_data(text: str, where: str) -> None:

@@ -73,6 +73,7 @@ def param_values(objects: FirmAObjects) -> dict[str, Any]:
         "section": next(iter(SECTIONS)),
         "card": next(iter(CARDS)),
         "space_id": objects.space_id,
+        "photo_id": objects.photo_id,
         "token": "A" * 43,
     }
 

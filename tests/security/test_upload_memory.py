@@ -25,7 +25,7 @@ import httpx
 import pytest
 
 from server.cli import migrate
-from server.services.weather_files import MAX_DATA_LINES
+from server.services.weather_lines import MAX_DATA_LINES
 from tests.utils.server import Server, server_env, start_server
 
 URL = "/api/v1/calc/degree-days"

@@ -14,14 +14,11 @@ from datetime import date, timedelta
 import pytest
 
 from server.errors import InputError
-from server.services import bill_readers as br
-from server.services.bill_readers import (
-    DateTextError,
-    read_bill_csv,
-    read_bill_text,
-    read_date,
-    read_green_button,
-)
+from server.services import green_button, green_button_feed
+from server.services.bill_csv import read_bill_csv
+from server.services.bill_dates import DateTextError, read_date
+from server.services.bill_table import MAX_ROWS, read_bill_text
+from server.services.green_button import read_green_button
 from tests.utils.green_button import Meter, Reading, feed, hourly, local
 
 JAN6 = date(2025, 1, 6)
@@ -246,7 +243,7 @@ def test_csv_upload_reads_like_a_paste_from_a_spooled_file() -> None:
 def test_csv_with_too_many_rows_is_refused_before_the_rest_is_read() -> None:
     row = "1/6/2025,2/4/2025,182\n"
     with pytest.raises(InputError, match="more than 3,000 rows") as caught:
-        read_bill_csv((row * (br.MAX_ROWS + 1)).encode())
+        read_bill_csv((row * (MAX_ROWS + 1)).encode())
     assert caught.value.field == "file"
 
 
@@ -267,7 +264,7 @@ def test_binary_or_empty_uploads_are_refused() -> None:
 
 def test_a_paste_too_long_is_refused() -> None:
     with pytest.raises(InputError, match="more than 3,000 rows") as caught:
-        read_bill_text("1/6/2025\t2/4/2025\t1\n" * (br.MAX_ROWS + 1))
+        read_bill_text("1/6/2025\t2/4/2025\t1\n" * (MAX_ROWS + 1))
     assert caught.value.field == "text"
 
 
@@ -397,10 +394,10 @@ def test_green_button_volume_units_are_refused_in_words() -> None:
 
 def test_green_button_size_bounds(monkeypatch: pytest.MonkeyPatch) -> None:
     data = feed([_monthly_gas()])
-    monkeypatch.setattr(br, "MAX_XML_BYTES", len(data) - 1)
+    monkeypatch.setattr(green_button, "MAX_XML_BYTES", len(data) - 1)
     with pytest.raises(InputError, match="larger than"):
         read_green_button(io.BytesIO(data))
-    monkeypatch.setattr(br, "MAX_XML_BYTES", 32 * 1024 * 1024)
-    monkeypatch.setattr(br, "MAX_READINGS", 2)
+    monkeypatch.setattr(green_button, "MAX_XML_BYTES", 32 * 1024 * 1024)
+    monkeypatch.setattr(green_button_feed, "MAX_READINGS", 2)
     with pytest.raises(InputError, match="more than 2 interval readings"):
         read_green_button(data)

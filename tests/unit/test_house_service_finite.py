@@ -9,8 +9,8 @@ from pydantic import ValidationError
 
 from server.documents.house import HouseDocument, SurfaceFigures
 from server.errors import InputError
-from server.services import house as house_service
-from server.services.house import TOO_LARGE, compute_house
+from server.services import comparison as house_service
+from server.services.comparison import TOO_LARGE, compute_house
 from tests.utils.houses import big_house_document
 
 

@@ -11,19 +11,19 @@ from hypothesis import strategies as st
 
 from server.documents.pipe import PipeRequest
 from server.errors import InputError
-from server.physics.pipe import (
+from server.physics.pipe import annual_heat_loss, pipe_heat_loss, thickness_for_target
+from server.physics.pipe_resistance import (
+    critical_radius,
+    cylinder_resistance_per_length,
+    equivalent_flat_resistance,
+)
+from server.physics.pipe_types import (
     CautionKind,
     PipeCaution,
     PipeInputError,
     PipeLayer,
     PipeRun,
     Problem,
-    annual_heat_loss,
-    critical_radius,
-    cylinder_resistance_per_length,
-    equivalent_flat_resistance,
-    pipe_heat_loss,
-    thickness_for_target,
 )
 from server.services.pipe import compute_pipe
 from server.services.pipe_words import caution_words, error_words, run_warnings

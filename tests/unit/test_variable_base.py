@@ -8,7 +8,7 @@ from __future__ import annotations
 import pytest
 
 from server.documents.house import HouseDocument
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 
 TABLE = [{"base": 50, "hdd": 2000}, {"base": 55, "hdd": 3000}, {"base": 60, "hdd": 4000},
          {"base": 65, "hdd": 5000}]  # fmt: skip

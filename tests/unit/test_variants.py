@@ -18,7 +18,7 @@ from server.documents.house import HouseDocument
 from server.physics import house_model as model
 from server.physics.units import from_si
 from server.physics.variants import Variants, unsupported
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from tests.api.test_house_api import DOC_IP
 from tests.utils.house_models import model_of_document
 from tests.utils.houses import big_house_document

@@ -212,7 +212,7 @@ def test_demo_house_every_set_and_its_best(app) -> None:  # type: ignore[no-unty
         from server.documents.house_request import HouseDocument
     except ImportError:  # before the documents split
         from server.documents.house import HouseDocument  # type: ignore[no-redef]
-    from server.services.house import compute_house, model_of_document
+    from server.services.comparison import compute_house, model_of_document
 
     body = _demo_document(app)
     house, upgrades, _ = model_of_document(HouseDocument.model_validate(body))

@@ -296,7 +296,7 @@ def _zip() -> bytes:
         (b"\x00\x01\x02\x03binary\x00garbage" * 20, "binary"),
         (bytes(range(1, 32)) * 40, "binary"),
         (_zip(), "ZIP"),
-        (gzip.compress(b"timestamp,temp\n"), "gzip"),
+        (gzip.compress(b"timestamp,temp\n", mtime=0), "gzip"),
         (b"Dear reader,\nthis is a letter, not weather.\n", "no temperature column"),
         (b"just some words\nand more words\n", "not a weather file"),
         (b"time,pressure,wind\n2021-01-01 00:00,1013,3\n", "no temperature column"),

@@ -6,7 +6,7 @@ from __future__ import annotations
 from server.documents.house import HouseDocument
 from server.physics import house_model as model
 from server.services.catalog import Catalog
-from server.services.house import model_of_document as build
+from server.services.comparison import model_of_document as build
 
 
 def model_of_document(

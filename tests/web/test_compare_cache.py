@@ -146,7 +146,7 @@ def test_skipping_the_single_upgrade_options_leaves_the_packages_unchanged() -> 
     # The compare page asks compute_house for packages only (upgrades_alone=False): every
     # package figure must be the same as in the full comparison, and the warnings too.
     from server.services.catalog import builtin_catalog
-    from server.services.house import compute_house
+    from server.services.comparison import compute_house
 
     doc = HouseDocument.model_validate(big_house_document(surfaces=6, upgrades_per_surface=3))
     full = compute_house(doc, catalog=builtin_catalog())

@@ -10,9 +10,9 @@ import pytest
 from server.db import session_scope
 from server.models import House
 from server.services.bill_comparison import modelled_periods
+from server.services.comparison import compute_house
 from server.services.demo import load_demo_house
 from server.services.heat_flows import heat_flows
-from server.services.house import compute_house
 from server.services.house_document import house_document
 
 

@@ -14,7 +14,7 @@ from sqlalchemy import select
 from server.errors import InputError
 from server.models import House, Organization, PriceBookItem
 from server.services import price_book as book
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 from server.services.library import catalog_for
 from tests.web.test_sharing import demo_house_for, signed_in_org

@@ -6,7 +6,7 @@ from fastapi.responses import Response
 from server.api.deps import CatalogDep
 from server.api.errors import ERROR_RESPONSES
 from server.documents.house import HouseDocument, HouseResult
-from server.services.house import house_result_json
+from server.services.comparison import house_result_json
 
 router = APIRouter(tags=["calculators"])
 

@@ -19,7 +19,7 @@ from server.errors import InputError
 from server.models import House
 from server.physics.units import UnitSystem
 from server.services.bill_forms import FormRow, rows_from_stored
-from server.services.bill_readers import BillRow
+from server.services.bill_rows import BillRow
 from server.services.bills import ELECTRIC_FUELS, fit_bills_document, fuel_unit_and_energy
 from server.services.catalog import Catalog
 from server.services.house_bills import DEFAULT_FUEL

@@ -1,5 +1,5 @@
 """The Compare page (templates/pages/compare.html, body partials/compare_body.html): as found vs
-each package, from the same :func:`server.services.house.compute_house` as the API.
+each package, from the same :func:`server.services.comparison.compute_house` as the API.
 
 The page's document asks for ranges (``uncertainty``: :data:`PAGE_UNCERTAINTY`, a fixed seed,
 so the same house always shows the same ranges); with bills the service calibrates and the
@@ -25,8 +25,8 @@ from server.services.bill_comparison import modelled_periods
 from server.services.calibration import RATIO_WARNING
 from server.services.catalog import Catalog
 from server.services.cautions import GENERAL, cautions_for
+from server.services.comparison import OVERSIZED_RATIO, compute_house
 from server.services.heat_flows import energy_text, heat_flows
-from server.services.house import OVERSIZED_RATIO, compute_house
 from server.services.house_document import house_document
 from server.web.chart_bills import bills_chart
 from server.web.chart_ranges import RangeRow, range_chart

@@ -15,6 +15,7 @@ from server.services.library import catalog_for
 from server.services.typical import typical_assemblies
 from server.web.pages.bills import bills_context
 from server.web.pages.house_run import house_run
+from server.web.pages.photos import photos_context
 from server.web.pages.settings import settings_context
 from server.web.pages.sharing import share_context
 from server.web.pages.spaces import spaces_context
@@ -59,6 +60,7 @@ def house_context(*, session: Session, organization_id: int, house_id: int) -> d
         **systems_context(house=house, catalog=catalog, run=run),
         **bills_context(house=house, catalog=catalog, run=run),
         **spaces_context(session=session, organization_id=organization_id, house=house, run=run),
+        **photos_context(session=session, organization_id=organization_id, house=house),
         "house": house,
         "rows": rows,
         "total_ua": total_ua,

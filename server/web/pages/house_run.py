@@ -2,7 +2,7 @@
 
 The House page shows figures in several sections (the envelope table, the buffer spaces, the
 design load, the bills' modelled vs measured ratio). They all come from one
-:func:`server.services.house.compute_house` of the saved house: the compare page's own run with
+:func:`server.services.comparison.compute_house` of the saved house: the compare page's own run with
 no selection (as found + every saved package, with the bills when there are any), taken from
 the compare cache (:mod:`server.web.compare_cache`), so a House page, the compare page and the
 homeowner's view of one state of the house compute it once between them.

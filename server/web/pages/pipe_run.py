@@ -10,7 +10,7 @@ from server.errors import InputError
 from server.models import House, Surface
 from server.services import houses as svc
 from server.services.cautions import cautions_for
-from server.services.house import compute_house
+from server.services.comparison import compute_house
 from server.services.house_document import house_document
 from server.web.settings_forms import FUEL_CHOICES
 from server.web.systems_forms import (

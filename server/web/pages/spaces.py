@@ -1,6 +1,6 @@
 """The House page's buffer spaces card (templates/partials/house_spaces.html).
 
-Every figure comes from one :func:`server.services.house.compute_house` of the saved house
+Every figure comes from one :func:`server.services.comparison.compute_house` of the saved house
 (the same result calc/house gives for its exported document).
 """
 

@@ -23,6 +23,7 @@ from server.services.library import list_materials
 from server.services.moisture import check_assembly_moisture
 from server.services.typical import typical_assemblies
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, AssemblyForm
+from server.web.pages.photos import photos_context
 from server.web.svg_condensation import condensation_svg
 
 
@@ -124,6 +125,7 @@ def surface_context(
     return {
         **details_context(house=house, surface=surface, catalog=catalog, typed=details_typed,
                           errors=details_errors),
+        **photos_context(session=session, organization_id=organization_id, house=house, surface=surface),
         "moisture": None if form.has_errors else moisture_context(
             house=house, surface=surface, result=result, catalog=catalog
         ),

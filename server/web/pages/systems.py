@@ -1,6 +1,6 @@
 """The House page's systems section (templates/partials/house_systems.html).
 
-Its figures come from :func:`server.services.house.compute_house` on the saved house's
+Its figures come from :func:`server.services.comparison.compute_house` on the saved house's
 document (:func:`server.services.house_document.house_document`): the same code as the JSON
 API's calc/house.
 """
@@ -14,7 +14,7 @@ from server.documents.house import HouseResult
 from server.errors import InputError
 from server.models import House
 from server.services.catalog import Catalog
-from server.services.house import OVERSIZED_RATIO, compute_house
+from server.services.comparison import OVERSIZED_RATIO, compute_house
 from server.services.house_document import house_document
 from server.services.system_sections import resnet_default
 from server.web.pages.house_run import HouseRun, house_run

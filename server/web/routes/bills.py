@@ -15,7 +15,7 @@ from fastapi.responses import RedirectResponse, Response
 from sqlalchemy.orm import Session
 from starlette.datastructures import UploadFile
 
-from server.errors import Conflict, InputError
+from server.errors import InputError
 from server.models import House, Organization
 from server.services import houses as svc
 from server.services.bill_forms import rows_from_form
@@ -27,6 +27,7 @@ from server.web.forms import form_version
 from server.web.pages.bills import bills_context
 from server.web.pages.house import house_context
 from server.web.render import is_htmx, page_or_fragment
+from server.web.saving import save_or_rerender
 
 router = APIRouter()
 #: largest file taken by each upload field [bytes] (the readers bound their rows as well)
@@ -110,15 +111,18 @@ def remove_house_bills(
 ) -> Response:
     """Remove the house's bills (the model is then no longer compared with them)."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    try:
-        remove_bills(session=session, house=house, expected_version=form_version(data))
-    except InputError as exc:
-        ctx = bills_context(house=house, errors={"remove": exc.message})
-        return _respond(request, session, org, house, ctx, 422)
-    except Conflict:
-        ctx = bills_context(house=house, errors={"remove": stale_form("the bills were not removed",
-                            then="Reload to see their change.")})  # fmt: skip
-        return _respond(request, session, org, house, ctx, 409)
-    return _respond(
-        request, session, org, house, bills_context(house=house, message="Bills removed."), 200
-    )
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        return _respond(
+            request, session, org, house, bills_context(house=house, errors=errors), status
+        )
+
+    def saved(_: None) -> Response:
+        ctx = bills_context(house=house, message="Bills removed.")
+        return _respond(request, session, org, house, ctx, 200)
+
+    return save_or_rerender(
+        call=lambda: remove_bills(session=session, house=house, expected_version=form_version(data)),
+        saved=saved, rerender=rerender, conflict_key="remove", field_key=lambda _: "remove",
+        not_done="the bills were not removed", then="Reload to see their change.",
+    )  # fmt: skip

@@ -11,7 +11,6 @@ from fastapi.responses import HTMLResponse, RedirectResponse
 from markupsafe import Markup
 from starlette.responses import Response
 
-from server.errors import Conflict, InputError
 from server.models import House
 from server.services import houses as svc
 from server.services import idempotency as idem
@@ -19,12 +18,12 @@ from server.services.best_package import save_best_package
 from server.services.catalog import Catalog
 from server.services.library import catalog_for
 from server.web.compare_cache import fragment_html, house_row
-from server.web.conflicts import stale_form
 from server.web.deps import CurrentUser, OrgDep, PostedFields, SessionDep, render, run_unit
 from server.web.forms import form_version
 from server.web.pages import compare as page
 from server.web.pages import compare_best as best
 from server.web.render import is_htmx
+from server.web.saving import save_or_rerender
 
 router = APIRouter()
 BEST_FRAGMENT = "partials/compare_best.html"
@@ -93,30 +92,33 @@ def save_best(
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     catalog = catalog_for(session=session, organization_id=org.id)
     budget_text, objective = data.get("budget", ""), data.get("objective", "npv")
-    errors: dict[str, str] = {}
-    status = 422
     amount, goal, errors = best.read_choice(units=house.units, budget=budget_text,
                                             objective=objective)  # fmt: skip
-    if not errors:
-        query = urlencode({"budget": budget_text, "objective": goal})
 
-        def work() -> str:
-            save_best_package(session=session, house=house, catalog=catalog, budget=amount,
-                              objective=goal, expected_version=form_version(data))  # fmt: skip
-            return f"/houses/{house.id}/compare?{query}#compare-best"
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        context = page.compare_context(house=house, catalog=catalog, chosen=[])
+        body = fragment_html(context, request.app.state.templates.env, is_htmx=False)
+        best_ctx = best.best_context(house=house, catalog=catalog, budget_text=budget_text,
+                                     objective=goal, asked=True, errors=errors)  # fmt: skip
+        best_ctx["chosen"] = []
+        return _page(request, house, body, best_ctx, fragment=False, status_code=status)
 
-        try:
-            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
-                                    key=idem.read_key(data), purpose="best-package", work=work)  # fmt: skip
-            return RedirectResponse(location, status_code=303)
-        except InputError as exc:
-            errors["budget" if exc.field == "budget" else "form"] = exc.message
-        except Conflict:
-            errors["version"] = stale_form("the package was not saved")
-            status = 409
-    context = page.compare_context(house=house, catalog=catalog, chosen=[])
-    body = fragment_html(context, request.app.state.templates.env, is_htmx=False)
-    best_ctx = best.best_context(house=house, catalog=catalog, budget_text=budget_text,
-                                 objective=goal, asked=True, errors=errors)  # fmt: skip
-    best_ctx["chosen"] = []
-    return _page(request, house, body, best_ctx, fragment=False, status_code=status)
+    if errors:
+        return rerender(errors, 422)
+    query = urlencode({"budget": budget_text, "objective": goal})
+
+    def work() -> str:
+        save_best_package(session=session, house=house, catalog=catalog, budget=amount,
+                          objective=goal, expected_version=form_version(data))  # fmt: skip
+        return f"/houses/{house.id}/compare?{query}#compare-best"
+
+    def save() -> str:  # the same form posted again answers as the first time
+        location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                key=idem.read_key(data), purpose="best-package", work=work)  # fmt: skip
+        return location
+
+    return save_or_rerender(
+        call=save, saved=lambda location: RedirectResponse(location, status_code=303),
+        rerender=rerender, conflict_key="version", not_done="the package was not saved",
+        field_key=lambda field: "budget" if field == "budget" else "form",
+    )  # fmt: skip

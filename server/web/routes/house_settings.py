@@ -3,37 +3,34 @@
 from __future__ import annotations
 
 import re
-from typing import Any, BinaryIO
+from typing import Any
 
 from fastapi import APIRouter, Request, UploadFile
 from fastapi.responses import RedirectResponse, Response
 from sqlalchemy.orm import Session
 
+from server.documents.climate import DegreeDaysResult
 from server.errors import InputError
 from server.models import House, Organization
 from server.services import houses as svc
-from server.services.bill_weather import normal_daily_means
-from server.services.climate import compute_degree_days
 from server.services.house_sections import (
     keep_unshown,
     save_house_section,
-    set_climate_from_weather,
+    set_climate_from_weather_file,
 )
 from server.services.library import catalog_for
 from server.services.number_text import NumberTextError, read_decimal
-from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, PostedFields, PostedForm, SessionDep
 from server.web.forms import form_version
 from server.web.pages.house import house_context
 from server.web.pages.settings import settings_context
 from server.web.pages.systems import systems_context
 from server.web.render import is_htmx, page_or_fragment
+from server.web.saving import save_or_rerender
 from server.web.settings_forms import COLUMNS, SECTIONS, parse_section
 
 router = APIRouter()
 MAX_WEATHER_BYTES = 20 * 1024 * 1024
-WEATHER_STALE = stale_form("the weather file was not used",
-                           then="Reload to see their change, then load the file again.")  # fmt: skip
 
 
 def _respond(request: Request, session: Session, org: Organization, house: House,
@@ -78,25 +75,30 @@ def save_section(
         doc = None
     if doc is not None and section == "climate":
         doc, errors = _with_balance_point(house, doc, data, errors)
-    if doc is not None:
-        shown = {f.key.split(".")[0] for f in SECTIONS[section][2]}
-        doc = keep_unshown(section, stored, doc, shown)  # what the form does not show stays
-        if section == "climate":
-            if zone:
-                doc["climate_zone"] = zone
-        try:  # written now: Conflict for a stale form or when another save came first
-            save_house_section(house=house, section=section, document=doc, expected_version=version)
-        except svc.Conflict:
-            errors = {"form": stale_form()}
-            doc = None
-    if doc is None:
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
         ctx = settings_context(house=house, section=section, typed=data, errors=errors,
                                message="Not saved: check the marked fields.")  # fmt: skip
-        return _respond(
-            request, session, org, house, ctx, 409 if "form" in errors and version_ok else 422
+        return _respond(request, session, org, house, ctx, status)
+
+    def saved(_: None) -> Response:
+        ctx = settings_context(
+            house=house, section=section, message=f"{SECTIONS[section][0]} saved."
         )
-    ctx = settings_context(house=house, section=section, message=f"{SECTIONS[section][0]} saved.")
-    return _respond(request, session, org, house, ctx, 200)
+        return _respond(request, session, org, house, ctx, 200)
+
+    if doc is None:  # as before, a message at the form's head (a check of the whole section) is 409
+        return rerender(errors, 409 if "form" in errors and version_ok else 422)
+    shown = {f.key.split(".")[0] for f in SECTIONS[section][2]}
+    doc = keep_unshown(section, stored, doc, shown)  # what the form does not show stays
+    if section == "climate" and zone:
+        doc["climate_zone"] = zone
+    # written now: Conflict for a stale form or when another save came first
+    return save_or_rerender(
+        call=lambda: save_house_section(house=house, section=section, document=doc,
+                                        expected_version=version),
+        saved=saved, rerender=rerender,
+    )  # fmt: skip
 
 
 def _with_balance_point(
@@ -138,41 +140,27 @@ def upload_weather(
     """Read a weather file (EPW, TMY3 or CSV) into the house's climate (a sync route: the
     upload is already spooled by the time it runs, so ``file.file`` is read directly)."""
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    try:
+
+    def read() -> DegreeDaysResult:
         version = form_version({"version": str(form.get("version", ""))})
         if (file.size or 0) > MAX_WEATHER_BYTES:  # the reader bounds the rows read, too
             raise InputError(
                 "file", "the file is larger than 20 MB; a year of hourly data is about 2 MB"
             )
-        svc.check_version(house, version)
-        result = compute_degree_days(  # read line by line from the spooled file, bounded
-            file.file, units=house.units, heating_base=None, cooling_base=None
-        )
-        normals = _normal_year(file.file, default_unit="F" if house.units == "ip" else "C")
-    except InputError as exc:
-        ctx = settings_context(house=house, section="climate", errors={"file": exc.message},
-                               message="The weather file was not used.")  # fmt: skip
-        return _respond(request, session, org, house, ctx, 422)
-    except svc.Conflict:
-        ctx = settings_context(house=house, section="climate", errors={"form": WEATHER_STALE})
-        return _respond(request, session, org, house, ctx, 409)
-    try:  # written now: Conflict when another save of the house came first
-        set_climate_from_weather(house=house, result=result, file_name=file.filename or "",
-                                 expected_version=version, normal_daily_means_c=normals)  # fmt: skip
-    except svc.Conflict:
-        ctx = settings_context(house=house, section="climate", errors={"form": WEATHER_STALE})
-        return _respond(request, session, org, house, ctx, 409)
-    name = result.station or file.filename or "the file"
-    ctx = settings_context(house=house, section="climate", message=f"Climate read from {name}: "
-                           f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
-    return _respond(request, session, org, house, ctx, 200)
+        return set_climate_from_weather_file(house=house, file=file.file, file_name=file.filename or "",
+                                             expected_version=version)  # fmt: skip
 
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        message = "The weather file was not used." if status == 422 else ""
+        ctx = settings_context(house=house, section="climate", errors=errors, message=message)
+        return _respond(request, session, org, house, ctx, status)
 
-def _normal_year(data: BinaryIO, *, default_unit: str) -> tuple[float, ...] | None:
-    """The file's 365 normal daily means [°C] for the bills' normal year, or None when the file
-    does not give every calendar day (the degree-days are still used)."""
-    data.seek(0)
-    try:
-        return normal_daily_means(data, default_unit=default_unit)
-    except InputError:
-        return None
+    def saved(result: DegreeDaysResult) -> Response:
+        name = result.station or file.filename or "the file"
+        ctx = settings_context(house=house, section="climate", message=f"Climate read from {name}: "
+                               f"HDD {result.hdd:,.0f}, CDD {result.cdd:,.0f}, zone {result.climate_zone}.")  # fmt: skip
+        return _respond(request, session, org, house, ctx, 200)
+
+    return save_or_rerender(call=read, saved=saved, rerender=rerender, field_key=lambda _: "file",
+                            not_done="the weather file was not used",
+                            then="Reload to see their change, then load the file again.")  # fmt: skip

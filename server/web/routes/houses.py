@@ -9,11 +9,11 @@ from server.errors import InputError
 from server.services import house_units
 from server.services import houses as svc
 from server.services import idempotency as idem
-from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import CurrentUser, OrgDep, SessionDep, render
 from server.web.forms import form_version, parse_float
 from server.web.pages.house import house_context, houses_context
 from server.web.render import page_or_fragment
+from server.web.saving import save_or_rerender
 
 router = APIRouter()
 
@@ -86,27 +86,29 @@ def add_surface(
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
     errors: dict[str, str] = {}
     area_value = parse_float(area, "area", errors, units=house.units)
-    if not errors:
 
-        def work() -> str:
-            surface = svc.add_surface(
-                session=session, house=house, name=name, kind=kind, area=area_value or 0.0,
-                typical=typical or None, expected_version=form_version({"version": version}),
-            )  # fmt: skip
-            return f"/houses/{house.id}/surfaces/{surface.id}"
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        context = house_context(session=session, organization_id=org.id, house_id=house_id)
+        context["form"] = {"name": name, "kind": kind, "area": area, "typical": typical}
+        context["errors"] = errors
+        return render(request, "pages/house.html", context, status_code=status)
 
-        try:  # the same form posted again answers with the surface it added the first time
-            location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
-                                    key=idem.read_key(idempotency_key), purpose="surface", work=work)  # fmt: skip
-            return RedirectResponse(location, status_code=303)
-        except InputError as exc:
-            errors[exc.field] = exc.message
-        except svc.Conflict:
-            errors["form"] = stale_form()
-    context = house_context(session=session, organization_id=org.id, house_id=house_id)
-    context["form"] = {"name": name, "kind": kind, "area": area, "typical": typical}
-    context["errors"] = errors
-    return render(request, "pages/house.html", context, status_code=rejected_status(errors))
+    if errors:
+        return rerender(errors, 422)
+
+    def work() -> str:
+        surface = svc.add_surface(
+            session=session, house=house, name=name, kind=kind, area=area_value or 0.0,
+            typical=typical or None, expected_version=form_version({"version": version}),
+        )  # fmt: skip
+        return f"/houses/{house.id}/surfaces/{surface.id}"
+
+    def add() -> str:  # the same form posted again answers with the surface it added first
+        location, _ = idem.once(session=session, organization_id=org.id, user_id=user.id,
+                                key=idem.read_key(idempotency_key), purpose="surface", work=work)  # fmt: skip
+        return location
+
+    return save_or_rerender(call=add, saved=_see_other, rerender=rerender)
 
 
 @router.post("/houses/{house_id}/units")
@@ -119,17 +121,25 @@ def switch_units(
     version: int | None = Form(None),
 ) -> Response:
     house = svc.get_house(session=session, organization_id=org.id, house_id=house_id)
-    if units in ("ip", "si"):
-        try:  # a stale tab is a conflict even when it asks for the units shown now
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        context = house_context(session=session, organization_id=org.id, house_id=house_id)
+        context["errors"] = errors
+        return render(request, "pages/house.html", context, status_code=status)
+
+    def switch() -> str:  # a stale tab is a conflict even when it asks for the units shown now
+        if units in ("ip", "si"):
             house_units.switch_units(
                 session=session,
                 house=house,
                 units=units,  # type: ignore[arg-type]
                 expected_version=version,
             )
-        except svc.Conflict:
-            context = house_context(session=session, organization_id=org.id, house_id=house_id)
-            context["errors"] = {"units": stale_form("the units were not switched",
-                                                     then="Here it is as saved now.")}  # fmt: skip
-            return render(request, "pages/house.html", context, status_code=409)
-    return RedirectResponse(f"/houses/{house.id}", status_code=303)
+        return f"/houses/{house.id}"
+
+    return save_or_rerender(call=switch, saved=_see_other, rerender=rerender, conflict_key="units",
+                            not_done="the units were not switched", then="Here it is as saved now.")  # fmt: skip
+
+
+def _see_other(location: str) -> RedirectResponse:
+    return RedirectResponse(location, status_code=303)

@@ -11,11 +11,11 @@ from server.errors import InputError
 from server.services import houses as svc
 from server.services import price_book as book
 from server.services.number_text import NumberTextError, read_decimal
-from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, SessionDep, render
 from server.web.forms import form_version
 from server.web.pages.price_book import price_book_context
 from server.web.pages.quote import quote_context
+from server.web.saving import save_or_rerender
 
 router = APIRouter()
 FIELDS = ("name", "upgrade_type", "basis", "units", "unit_cost", "fixed_cost", "notes")
@@ -123,12 +123,9 @@ def fill_from_price_book(
     if upgrade is None:
         raise svc.NotFound
     target = back if back.startswith(f"/houses/{house.id}/") else f"/houses/{house.id}"
-    try:
-        book.link_price_item(session=session, organization_id=org.id, house=house, upgrade=upgrade,
-                             price_item=price_item, expected_version=form_version({"version": version}))  # fmt: skip
-    except (InputError, svc.Conflict) as exc:
-        message = stale_form() if isinstance(exc, svc.Conflict) else exc.message
-        status = 409 if isinstance(exc, svc.Conflict) else 422
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        message = errors["price_item"]
         slug = target.rstrip("/").rsplit("/", 1)[-1] if "/quote/" in target else None
         if slug:  # the page the form was on
             quote = quote_context(session=session, organization=org, house=house, package_slug=slug,
@@ -137,4 +134,10 @@ def fill_from_price_book(
         ctx = price_book_context(session=session, organization_id=org.id,
                                  message=f"Cost not filled for '{upgrade.name}': {message}")  # fmt: skip
         return render(request, "pages/price_book.html", ctx, status_code=status)
-    return RedirectResponse(target, status_code=303)
+
+    return save_or_rerender(
+        call=lambda: book.link_price_item(session=session, organization_id=org.id, house=house, upgrade=upgrade,
+                                          price_item=price_item, expected_version=form_version({"version": version})),
+        saved=lambda _: RedirectResponse(target, status_code=303), rerender=rerender,
+        conflict_key="price_item", field_key=lambda _: "price_item",
+    )  # fmt: skip

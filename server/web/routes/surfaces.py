@@ -16,7 +16,6 @@ from server.models import House, Organization, Surface
 from server.services import houses as svc
 from server.services.library import catalog_for
 from server.services.surface_details import save_surface_details
-from server.web.conflicts import rejected_status, stale_form
 from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.editor import run_editor
 from server.web.forms import form_version
@@ -24,6 +23,7 @@ from server.web.layer_form import form_from_document
 from server.web.pages.pipe_run import pipe_run_context
 from server.web.pages.surface import saved_result, surface_context
 from server.web.render import is_htmx, page_or_fragment
+from server.web.saving import save_or_rerender
 
 router = APIRouter()
 
@@ -92,33 +92,13 @@ def update_surface(
 ) -> Response:
     house, surface = _load(session, org, house_id, surface_id)
     catalog = catalog_for(session=session, organization_id=org.id)
-    errors: dict[str, str] = {}
-    try:
-        version = form_version(data)
-    except InputError as exc:
-        version, errors[exc.field] = None, exc.message
     deleting = data.get("action") == "delete"
-    if deleting and not errors:
-        try:
-            svc.delete_surface(
-                session=session, house=house, surface=surface, expected_version=version
-            )
-            return RedirectResponse(f"/houses/{house.id}", status_code=303)
-        except svc.Conflict:
-            errors["form"] = stale_form("nothing was deleted")
-    if not errors and not deleting:
-        try:
-            save_surface_details(session=session, house=house, surface=surface, data=data,
-                                 catalog=catalog, expected_version=version)  # fmt: skip
-        except InputError as exc:
-            errors.update({e.field: e.message for e in exc.errors()})
-        except svc.Conflict:
-            errors["form"] = stale_form()
-    if errors and surface.kind == "pipe_run":  # no layers to show: the pipe run's own page
-        ctx = pipe_run_context(house=house, surface=surface,
-                               insulate_errors={"form": " ".join(errors.values())})  # fmt: skip
-        return render(request, "pages/pipe_run.html", ctx, status_code=rejected_status(errors))
-    if errors:
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        if surface.kind == "pipe_run":  # no layers to show: the pipe run's own page
+            ctx = pipe_run_context(house=house, surface=surface,
+                                   insulate_errors={"form": " ".join(errors.values())})  # fmt: skip
+            return render(request, "pages/pipe_run.html", ctx, status_code=status)
         form = form_from_document(surface.assembly, cast(Units, house.units))
         result = saved_result(house=house, surface=surface, catalog=catalog)
         ctx = surface_context(session=session, organization_id=org.id, house=house, surface=surface,
@@ -126,5 +106,22 @@ def update_surface(
                               details_typed=None if deleting else dict(data),
                               details_errors=errors)  # fmt: skip
         ctx["detail_errors"], ctx["detail_form"] = errors, (None if deleting else data)
-        return render(request, "pages/surface.html", ctx, status_code=rejected_status(errors))
-    return RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303)
+        return render(request, "pages/surface.html", ctx, status_code=status)
+
+    try:
+        version = form_version(data)
+    except InputError as exc:
+        return rerender({exc.field: exc.message}, 422)
+    if deleting:
+        return save_or_rerender(
+            call=lambda: svc.delete_surface(session=session, house=house, surface=surface,
+                                            expected_version=version),
+            saved=lambda _: RedirectResponse(f"/houses/{house.id}", status_code=303),
+            rerender=rerender, not_done="nothing was deleted",
+        )  # fmt: skip
+    return save_or_rerender(
+        call=lambda: save_surface_details(session=session, house=house, surface=surface, data=data,
+                                          catalog=catalog, expected_version=version),
+        saved=lambda _: RedirectResponse(f"/houses/{house.id}/surfaces/{surface.id}", status_code=303),
+        rerender=rerender,
+    )  # fmt: skip

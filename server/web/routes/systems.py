@@ -13,13 +13,13 @@ from server.models import House, Organization
 from server.services import houses as svc
 from server.services.library import catalog_for
 from server.services.system_sections import save_system_card
-from server.web.conflicts import stale_form
 from server.web.deps import OrgDep, PostedFields, SessionDep
 from server.web.forms import form_version
 from server.web.pages.house import house_context
 from server.web.pages.settings import settings_context
 from server.web.pages.systems import systems_context
 from server.web.render import is_htmx, page_or_fragment
+from server.web.saving import save_or_rerender
 from server.web.systems_forms import CARDS, location_choices, parse_card
 
 router = APIRouter()
@@ -56,25 +56,28 @@ def save_card(
     if card not in CARDS:
         raise svc.NotFound
     values, errors = parse_card(card, data, units=house.units, locations=location_choices(house))
-    status = 422
     try:
         version = form_version(data)
     except InputError as exc:
         values, errors = None, {**errors, "form": exc.message}
-    if values is not None:
-        try:  # written now: Conflict for a stale form or when another save came first
-            save_system_card(house=house, card=card, values=values, expected_version=version)
-            status = 200
-        except InputError as exc:
-            errors = {exc.field: exc.message}
-        except svc.Conflict:
-            errors, status = {"form": stale_form()}, 409
-    catalog = catalog_for(session=session, organization_id=org.id)
-    if status != 200:
+
+    def rerender(errors: dict[str, str], status: int) -> Response:
+        catalog = catalog_for(session=session, organization_id=org.id)
         ctx = systems_context(house=house, catalog=catalog, card=card, typed=data, errors=errors,
                               message="Not saved: check the marked fields.")  # fmt: skip
-    else:
+        return _respond(request, session, org, house, ctx, status)
+
+    def saved(_: None) -> Response:
+        catalog = catalog_for(session=session, organization_id=org.id)
         ctx = systems_context(
             house=house, catalog=catalog, card=card, message=f"{CARDS[card][0]} saved."
         )
-    return _respond(request, session, org, house, ctx, status)
+        return _respond(request, session, org, house, ctx, 200)
+
+    if values is None:
+        return rerender(errors, 422)
+    # written now: Conflict for a stale form or when another save came first
+    return save_or_rerender(
+        call=lambda: save_system_card(house=house, card=card, values=values, expected_version=version),
+        saved=saved, rerender=rerender,
+    )  # fmt: skip
