@@ -379,8 +379,8 @@ def main(argv: list[str] | None = None) -> int:
 
         print(f"demo house loaded: /houses/{house_id}")
         print("demo sign-ins (development only; deactivate them on a real server):")
-        for email, password, firm, role in DEMO_ACCOUNTS:
-            print(f"  {email} / {password}  ({role}, {firm})")
+        for email, password, org_name, role in DEMO_ACCOUNTS:
+            print(f"  {email} / {password}  ({role}, {org_name})")
     elif args.command == "serve":
         serve(args.host, args.port, args.workers)
     elif args.command in ("backup", "restore"):

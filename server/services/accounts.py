@@ -224,7 +224,7 @@ def authenticate(*, session: Session, email: str, password: str, client: str) ->
 
 #: built once: every signed-in request runs it (building it each time cost ~40 % of the lookup).
 #: The outer join finds the sign-out of this very session, if any, in the same query.
-_USER_AND_FIRM = (
+_USER_AND_ORGANIZATION = (
     select(User, Organization, RevokedSession.nonce)
     .join(Organization, Organization.id == User.organization_id)
     .outerjoin(RevokedSession, RevokedSession.nonce == bindparam("nonce"))
@@ -237,7 +237,7 @@ def user_for_session(
 ) -> tuple[User, Organization] | None:
     """The user a session cookie names and their firm (one query), if the user is still active
     and the session not revoked (signed out here, or everywhere); else None."""
-    row = session.execute(_USER_AND_FIRM, {"user_id": user_id, "nonce": nonce}).first()
+    row = session.execute(_USER_AND_ORGANIZATION, {"user_id": user_id, "nonce": nonce}).first()
     if row is None:
         return None
     user, org, revoked = row

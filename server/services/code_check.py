@@ -24,7 +24,7 @@ def code_verdict(
 ) -> CodeVerdict | None:
     """How an assembly compares with the prescriptive target for its kind and zone, or None.
 
-    ``rows`` is the firm's table (server.services.firm_code_targets.rows_for); default packaged.
+    ``rows`` is the firm's table (server.services.organization_code_targets.rows_for); default packaged.
     """
     zone = house_climate_zone(climate)
     if zone is None or result is None:

@@ -199,10 +199,10 @@ def _demo_upgrades(surfaces: Mapping[str, Surface]) -> list[tuple[str, str, dict
 #: (e-mail, password, firm, role): development sign-ins made by ``warmstead demo``. Known
 #: passwords: deactivate these accounts (Users page) on any server that real firms use.
 DEMO_PASSWORD = "warmstead-demo"
-OTHER_FIRM = "Other firm"
+OTHER_ORGANIZATION = "Other firm"
 DEMO_ACCOUNTS = (
     ("auditor@demo.invalid", DEMO_PASSWORD, "demo firm", "admin"),
-    ("other@demo.invalid", DEMO_PASSWORD, OTHER_FIRM, "admin"),
+    ("other@demo.invalid", DEMO_PASSWORD, OTHER_ORGANIZATION, "admin"),
 )
 
 
@@ -216,14 +216,18 @@ def load_demo_accounts(*, session: Session) -> list[tuple[str, str, str, str]]:
     from server.models import Organization, User
     from server.services.accounts import create_user
 
-    demo_firm = default_organization(session=session)
-    other = session.scalars(select(Organization).where(Organization.name == OTHER_FIRM)).first()
+    demo_org = default_organization(session=session)
+    other = session.scalars(
+        select(Organization).where(Organization.name == OTHER_ORGANIZATION)
+    ).first()
     if other is None:
-        other = Organization(name=OTHER_FIRM)
+        other = Organization(name=OTHER_ORGANIZATION)
         session.add(other)
         session.flush()
-    for (email, password, _firm, role), org in zip(DEMO_ACCOUNTS, (demo_firm, other), strict=True):
+    for (email, password, _org_name, role), org in zip(
+        DEMO_ACCOUNTS, (demo_org, other), strict=True
+    ):
         if session.scalars(select(User.id).where(User.email == email)).first() is None:
             create_user(session=session, organization_id=org.id, email=email, password=password,
-                        role=role, name="Demo auditor" if org is demo_firm else "Other firm's auditor")  # fmt: skip
+                        role=role, name="Demo auditor" if org is demo_org else "Other firm's auditor")  # fmt: skip
     return list(DEMO_ACCOUNTS)

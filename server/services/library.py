@@ -99,12 +99,14 @@ def add_material(
     return material
 
 
-_FIRM_MATERIALS = select(Material).where(Material.organization_id == bindparam("organization_id"))
+_ORGANIZATION_MATERIALS = select(Material).where(
+    Material.organization_id == bindparam("organization_id")
+)
 
 
 def catalog_for(*, session: Session, organization_id: int) -> Catalog:
     """Built-in catalog merged with the firm's own materials (firm's win on a slug clash)."""
-    own = session.scalars(_FIRM_MATERIALS, {"organization_id": organization_id}).all()
+    own = session.scalars(_ORGANIZATION_MATERIALS, {"organization_id": organization_id}).all()
     if not own:
         return builtin_catalog()
     merged = dict(builtin_catalog())

@@ -18,5 +18,6 @@ module                        page or section
 ``library``                   Library
 ``code_targets``              Code targets
 ``pipe_tool``                 Pipes tool
+``account``                   Login, Account, Users (admin)
 ============================  ==================================================================
 """

@@ -8,7 +8,7 @@ from typing import Any
 from sqlalchemy.orm import Session
 
 from server.physics.code_targets import SURFACE_KINDS
-from server.services.firm_code_targets import own_keys, rows_for
+from server.services.organization_code_targets import own_keys, rows_for
 
 KIND_LABELS = {
     "ceiling": "Ceiling / attic", "wood_frame_wall": "Wood-frame wall", "mass_wall": "Mass wall",

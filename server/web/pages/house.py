@@ -9,9 +9,9 @@ from sqlalchemy.orm import Session
 
 from server.services import houses as svc
 from server.services.envelope import envelope_rows
-from server.services.firm_code_targets import rows_for
 from server.services.house_progress import house_facts, section_todo
 from server.services.library import catalog_for
+from server.services.organization_code_targets import rows_for
 from server.services.typical import typical_assemblies
 from server.web.pages.bills import bills_context
 from server.web.pages.house_run import house_run

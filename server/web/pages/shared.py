@@ -75,7 +75,7 @@ def shared_context(
         **context,
         "matched": matched,
         "token": token,
-        "firm_name": org.name if org else "",
+        "organization_name": org.name if org else "",
         "shared_photos": shared_photos(session=session, link=link),  # show_on_share ones only
         "options": [o for o in options if o["id"] != "your-selection"],
         "selection": selection,

@@ -18,9 +18,9 @@ from server.services.catalog import Catalog
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
 from server.services.envelope import as_found, behind_label, is_ground
-from server.services.firm_code_targets import rows_for
 from server.services.library import list_materials
 from server.services.moisture import check_assembly_moisture
+from server.services.organization_code_targets import rows_for
 from server.services.typical import typical_assemblies
 from server.web.layer_form import CAVITY_TYPES, LAYER_TYPES, AssemblyForm
 from server.web.pages.photos import photos_context

@@ -15,8 +15,8 @@ from server.services.assembly import evaluate_assembly
 from server.services.catalog import Catalog
 from server.services.cautions import cautions_for
 from server.services.code_check import code_verdict
-from server.services.firm_code_targets import rows_for
 from server.services.library import catalog_for, list_materials
+from server.services.organization_code_targets import rows_for
 from server.services.price_book import list_items
 from server.services.typical import typical_assemblies
 from server.services.upgrade_forms import KIND_CAUTIONS, change_part, form_values, upgrade_effect

@@ -6,7 +6,6 @@ from typing import Annotated, Any
 
 from fastapi import APIRouter, Depends, Form, Request
 from fastapi.responses import RedirectResponse, Response
-from sqlalchemy.orm import Session
 
 from server import security
 from server.errors import InputError
@@ -19,18 +18,18 @@ from server.security import (
     session_cookie_header,
 )
 from server.services import accounts
-from server.services.demo import DEMO_ACCOUNTS
 from server.web.deps import AdminUser, CurrentUser, SessionDep, get_current_user, render
+from server.web.pages.account import (
+    BAD_LOGIN,
+    account_context,
+    login_context,
+    login_wait_error,
+    password_wait_error,
+    users_context,
+)
 
 router = APIRouter()
 MaybeUser = Annotated[User | None, Depends(get_current_user)]
-BAD_LOGIN = "That e-mail and password do not match an active account. Check both and try again."
-DONE = {
-    "added": "User added. Give them their temporary password in person or by phone.",
-    "reset": "Password changed. Their old sessions have ended; give them the new password.",
-    "deactivated": "User deactivated: they are signed out everywhere and cannot sign in.",
-    "activated": "User reactivated: they can sign in again.",
-}
 
 
 def _secure(request: Request) -> bool:
@@ -41,22 +40,12 @@ def _client(request: Request) -> str:
     return request.client.host if request.client else "unknown"
 
 
-def _wait_text(retry_after_s: int) -> str:
-    """'about 1 minute', 'about 15 minutes': a rate limit's wait in words."""
-    minutes = max(1, round(retry_after_s / 60))
-    return f"about {minutes} minute{'s' if minutes != 1 else ''}"
-
-
 def _login_page(request: Request, *, email: str = "", next_path: str = "", error: str = "",
                 status_code: int = 200, headers: dict[str, str] | None = None) -> Response:  # fmt: skip
-    settings = request.app.state.settings
-    demo = DEMO_ACCOUNTS if settings.environment == "development" else ()
-    response = render(
-        request,
-        "pages/login.html",
-        {"email": email, "next": safe_next(next_path, default=""), "error": error, "demo": demo},
-        status_code=status_code,
-    )
+    development = request.app.state.settings.environment == "development"
+    context = login_context(development=development, email=email, next_path=next_path,
+                            error=error)  # fmt: skip
+    response = render(request, "pages/login.html", context, status_code=status_code)
     response.headers.update(headers or {})
     return response
 
@@ -81,8 +70,7 @@ def login(
             session=session, email=email, password=password, client=_client(request)
         )
     except accounts.RateLimited as exc:
-        message = (f"Too many tries. Wait {_wait_text(exc.retry_after)}, "
-                   "then try again, or ask your firm's admin to reset your password.")  # fmt: skip
+        message = login_wait_error(exc.retry_after)
         return _login_page(request, email=email.strip(), next_path=next_path, error=message,
                            status_code=429, headers={"Retry-After": str(exc.retry_after)})  # fmt: skip
     if user is None:
@@ -124,23 +112,15 @@ def logout(
     return response
 
 
-ACCOUNT_DONE = {
-    "password": "Password changed. You are still signed in here; every other device is signed "
-    "out and needs the new password.",
-}
-
-
 def _account_page(request: Request, user: User, *, errors: dict[str, str] | None = None,
-                  message: str = "", status_code: int = 200) -> Response:  # fmt: skip
-    # Typed passwords are never sent back into the form, right or wrong.
-    context = {"me": user, "errors": errors or {}, "message": message,
-               "min_length": accounts.PASSWORD_MIN, "nav": "account"}  # fmt: skip
+                  done: str = "", status_code: int = 200) -> Response:  # fmt: skip
+    context = account_context(user=user, errors=errors, done=done)
     return render(request, "pages/account.html", context, status_code=status_code)
 
 
 @router.get("/account", name="account")
 def account_page(request: Request, user: CurrentUser, done: str = "") -> Response:
-    return _account_page(request, user, message=ACCOUNT_DONE.get(done, ""))
+    return _account_page(request, user, done=done)
 
 
 @router.post("/account/password")
@@ -157,8 +137,7 @@ def change_password(
                                      new=new_password, repeat=repeat_password,
                                      client=_client(request))  # fmt: skip
     except accounts.RateLimited as exc:
-        error = {"current_password": f"too many wrong tries; wait {_wait_text(exc.retry_after)} "
-                                     "and try again"}  # fmt: skip
+        error = {"current_password": password_wait_error(exc.retry_after)}
         response = _account_page(request, user, errors=error, status_code=429)
         response.headers["Retry-After"] = str(exc.retry_after)
         return response
@@ -174,20 +153,7 @@ def change_password(
     return response
 
 
-def _admin_page(request: Request, session: Session, admin: User, *, status_code: int = 200,
-                **extra: Any) -> Response:  # fmt: skip
-    context: dict[str, Any] = {
-        "users": accounts.list_users(session=session, organization_id=admin.organization_id),
-        "me": admin,
-        "form": {"role": "staff"},
-        "errors": {},
-        "row_errors": {},
-        "message": "",
-        "new_password": None,
-        "nav": "users",
-        "min_length": accounts.PASSWORD_MIN,
-    }
-    context.update(extra)
+def _users_page(request: Request, context: dict[str, Any], status_code: int = 200) -> Response:
     return render(request, "pages/admin_users.html", context, status_code=status_code)
 
 
@@ -195,7 +161,7 @@ def _admin_page(request: Request, session: Session, admin: User, *, status_code:
 def admin_users_page(
     request: Request, session: SessionDep, admin: AdminUser, done: str = ""
 ) -> Response:
-    return _admin_page(request, session, admin, message=DONE.get(done, ""))
+    return _users_page(request, users_context(session=session, admin=admin, done=done))
 
 
 @router.post("/admin/users")
@@ -214,12 +180,14 @@ def add_user(
                                     email=email, password=temporary, role=role, name=name)  # fmt: skip
     except InputError as exc:
         form = {"email": email, "name": name, "role": role}
-        return _admin_page(request, session, admin, form=form, errors={exc.field: exc.message},
-                           status_code=422)  # fmt: skip
+        context = users_context(session=session, admin=admin, form=form,
+                                errors={exc.field: exc.message})  # fmt: skip
+        return _users_page(request, context, status_code=422)
     if password:
         return RedirectResponse("/admin/users?done=added", status_code=303)
-    return _admin_page(request, session, admin, message=DONE["added"],
-                       new_password=(user.email, temporary))  # fmt: skip
+    context = users_context(session=session, admin=admin, done="added",
+                            new_password=(user.email, temporary))  # fmt: skip
+    return _users_page(request, context)
 
 
 @router.post("/admin/users/{user_id}/password")
@@ -232,12 +200,14 @@ def reset_password(
             session=session, admin=admin, user_id=user_id, new_password=temporary
         )
     except InputError as exc:
-        return _admin_page(request, session, admin, row_errors={user_id: exc.message},
-                           status_code=422)  # fmt: skip
+        context = users_context(session=session, admin=admin,
+                                row_errors={user_id: exc.message})  # fmt: skip
+        return _users_page(request, context, status_code=422)
     if password:
         return RedirectResponse("/admin/users?done=reset", status_code=303)
-    return _admin_page(request, session, admin, message=DONE["reset"],
-                       new_password=(user.email, temporary))  # fmt: skip
+    context = users_context(session=session, admin=admin, done="reset",
+                            new_password=(user.email, temporary))  # fmt: skip
+    return _users_page(request, context)
 
 
 @router.post("/admin/users/{user_id}/active")
@@ -248,8 +218,9 @@ def set_active(
     try:
         accounts.set_active(session=session, admin=admin, user_id=user_id, active=wanted)
     except InputError as exc:
-        return _admin_page(request, session, admin, row_errors={user_id: exc.message},
-                           status_code=422)  # fmt: skip
+        context = users_context(session=session, admin=admin,
+                                row_errors={user_id: exc.message})  # fmt: skip
+        return _users_page(request, context, status_code=422)
     return RedirectResponse(
         f"/admin/users?done={'activated' if wanted else 'deactivated'}", status_code=303
     )

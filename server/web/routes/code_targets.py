@@ -6,8 +6,8 @@ from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, RedirectResponse, Response
 
 from server.errors import InputError
-from server.services.firm_code_targets import reset_row, save_row
 from server.services.number_text import NumberTextError, read_integer
+from server.services.organization_code_targets import reset_row, save_row
 from server.web.deps import OrgDep, PostedFields, SessionDep, render
 from server.web.forms import parse_float
 from server.web.pages.code_targets import code_targets_context

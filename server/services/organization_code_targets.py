@@ -10,7 +10,7 @@ from server.models import CodeTargetRow
 from server.physics.code_targets import SURFACE_KINDS, CodeTarget
 from server.services.code_target_data import load_code_targets
 
-FIRM_SOURCE = "firm's own"  # one of the source kinds CodeTarget accepts
+ORGANIZATION_SOURCE = "firm's own"  # one of the source kinds CodeTarget accepts
 
 
 def rows_for(*, session: Session, organization_id: int) -> tuple[CodeTarget, ...]:
@@ -39,7 +39,7 @@ def own_keys(*, session: Session, organization_id: int) -> set[tuple[int, str]]:
 def _target(row: CodeTargetRow) -> CodeTarget:
     return CodeTarget(
         edition=row.edition, climate_zone=row.climate_zone, surface_kind=row.surface_kind,
-        r_min_ip=row.r_min_ip, u_max_ip=row.u_max_ip, note=row.note, source_kind=FIRM_SOURCE,
+        r_min_ip=row.r_min_ip, u_max_ip=row.u_max_ip, note=row.note, source_kind=ORGANIZATION_SOURCE,
     )  # fmt: skip
 
 
@@ -52,7 +52,7 @@ def save_row(
         raise InputError("surface_kind", "choose a surface kind from the list")
     try:
         CodeTarget(edition=edition.strip(), climate_zone=climate_zone, surface_kind=surface_kind,
-                   r_min_ip=r_min_ip, u_max_ip=u_max_ip, note=note.strip(), source_kind=FIRM_SOURCE)  # fmt: skip
+                   r_min_ip=r_min_ip, u_max_ip=u_max_ip, note=note.strip(), source_kind=ORGANIZATION_SOURCE)  # fmt: skip
     except ValueError as exc:
         text = str(exc)
         field = "edition" if "edition" in text else "climate_zone" if "zone" in text else "r_min_ip"
