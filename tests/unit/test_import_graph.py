@@ -16,10 +16,6 @@ ROOT = Path(__file__).resolve().parents[2]
 SCRIPT = ROOT / "scripts" / "import_graph.py"
 #: the layers the page and API routes live in, and what they share
 LAYERS = ("server.web", "server.api", "server.deps", "server.errors", "server.app")
-#: cycles among services that were still being untangled when this test was written (each is a
-#: function-level import of a module that imports the importer back); the test fails on any
-#: other cycle, and keeps passing as these go away
-SERVICE_CYCLES_IN_PROGRESS = ({"server.services.house_bills", "server.services.houses"},)
 
 
 def _script() -> ModuleType:
@@ -71,10 +67,7 @@ def test_the_package_has_no_api_web_edge_and_no_cycle_in_its_layers() -> None:
     graph = script.import_graph()
     assert script.forbidden_edges(graph) == []
     found = script.cycles(graph)
-    in_layers = [c for c in found if any(m.startswith(LAYERS) for m in c)]
-    assert in_layers == []
-    others = [set(c) for c in found if c not in in_layers]
-    assert all(c in SERVICE_CYCLES_IN_PROGRESS for c in others), others
+    assert found == []  # no cycle anywhere in the package, services and physics included
 
 
 def test_no_route_module_imports_another() -> None:
