@@ -34,7 +34,7 @@ def range_chart(
     """One bar per row on a common axis from 0 (or the lowest P10) to the highest P90."""
     narrow = layout == "narrow"
     width, left, right = (360, 6, 12) if narrow else (640, 200, 24)
-    row_h = 64 if narrow else 50
+    row_h = 80 if narrow else 50
     lo = min([0.0, *(r.p10 for r in rows)])
     hi = max([0.0, *(r.p90 for r in rows)]) or 1.0
 
@@ -61,12 +61,22 @@ def range_chart(
             f'width="{max(x(row.p90) - x(row.p10), 2):.1f}" height="18" fill="{BAR}" rx="3"/>'
             f'<rect class="range-mid" x="{x(row.p50) - 2:.1f}" y="{bar_y - 4}" width="4" '
             f'height="26" fill="{INK}"/>'
-            f'<text x="{x(row.p10) if narrow else left:.1f}" y="{bar_y + 36}" fill="{MUTED}" '
-            f'font-size="{13 if narrow else 12}">'
-            f"{escape(_money(row.p10, money))}–{escape(_money(row.p90, money))}, middle "
-            f"{escape(_money(row.p50, money))} · pays back in {years} yr: {row.pays_back:.0%}"
-            "</text>"
         )
+        spread = (
+            f"{escape(_money(row.p10, money))}–{escape(_money(row.p90, money))}, middle "
+            f"{escape(_money(row.p50, money))}"
+        )
+        payback = f"pays back in {years} yr: {row.pays_back:.0%}"
+        if narrow:  # two lines from the left edge: one line ran past the right edge at 360
+            parts.append(
+                f'<text x="{left}" y="{bar_y + 36}" fill="{MUTED}" font-size="13">{spread}'
+                f'<tspan x="{left}" dy="16">{payback}</tspan></text>'
+            )
+        else:
+            parts.append(
+                f'<text x="{left}" y="{bar_y + 36}" fill="{MUTED}" font-size="12">'
+                f"{spread} · {payback}</text>"
+            )
     desc = "; ".join(range_words(r, money) for r in rows)
     return _svg(width, 12 + row_h * len(rows), title, desc, "".join(parts),
                 font=15 if narrow else 13)  # fmt: skip

@@ -31,6 +31,13 @@ def _svg(width: int, height: int, title: str, desc: str, body: str, font: int = 
     )
 
 
+def _text_room(chars: int, font: int, *, least: int) -> int:
+    """Room (SVG units) right of the longest bar for a value label of ``chars`` characters at
+    ``font``: 0.58 em a character (digits and lower case in a sans face are about 0.55 em; common
+    practice, from memory) plus a 6-unit gap and 4 to spare, never less than ``least``."""
+    return max(least, round(chars * font * 0.58) + 10)
+
+
 def both_layouts(wide: str, narrow: str) -> Markup:
     """The two layouts of one chart; CSS shows one (``.chart-wide`` / ``.chart-narrow``)."""
     return Markup(f'<div class="chart-wide">{wide}</div><div class="chart-narrow">{narrow}</div>')
@@ -43,14 +50,16 @@ def bar_chart(
     """Horizontal bars: (label, value, value text). ``layout="narrow"`` puts labels above;
     ``label_width`` (wide layout) is the room left of the bars for the labels."""
     top = max((v for _, v, _ in rows), default=0) or 1.0
+    longest = max((len(text) for _, _, text in rows), default=0)
     desc = "; ".join(f"{label}: {text}" for label, _, text in rows)
     desc += f" ({unit})" if unit else ""
     parts = []
     if layout == "narrow":
         width, row_h = 360, 42
+        span = width - _text_room(longest, 15, least=84)
         for i, (label, value, text) in enumerate(rows):
             y = 6 + i * row_h
-            w = max(0.0, value) / top * (width - 84)
+            w = max(0.0, value) / top * span
             parts.append(
                 f'<text x="0" y="{y + 15}" fill="{INK}">{escape(label[:44])}</text>'
                 f'<rect x="0" y="{y + 21}" width="{w:.1f}" height="14" fill="{BAR}" rx="2"/>'
@@ -59,9 +68,10 @@ def bar_chart(
         return _svg(width, row_h * len(rows) + 8, title, desc, "".join(parts), font=15)
     width, row_h, label_w = 640, 30, label_width
     height = row_h * len(rows) + 20
+    span = width - label_w - _text_room(longest, 13, least=110)
     for i, (label, value, text) in enumerate(rows):
         y = 10 + i * row_h
-        w = max(0.0, value) / top * (width - label_w - 110)
+        w = max(0.0, value) / top * span
         parts.append(
             f'<text x="{label_w - 8}" y="{y + 19}" text-anchor="end" fill="{INK}">{escape(label[: label_w // 7 + 2])}</text>'
             f'<rect x="{label_w}" y="{y + 5}" width="{w:.1f}" height="{row_h - 10}" fill="{BAR}" rx="2"/>'
@@ -126,7 +136,7 @@ def cash_flow_chart(
             )
         else:
             parts.append(
-                f'<text x="{width - right + 6}" y="{y(end) + 4 + 14 * (i % 2):.1f}" fill="{colour}">{escape(label[:18])}</text>'
+                f'<text x="{width - right + 6}" y="{y(end) + 4 + 14 * (i % 2):.1f}" fill="{colour}">{escape(label[:20])}</text>'
             )
         desc.append(
             f"{label}: starts at {_money(ys[0], money)}, "

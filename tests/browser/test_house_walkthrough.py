@@ -78,7 +78,14 @@ def test_a_settings_save_then_a_systems_save_give_no_conflict(
     page.get_by_role("button", name="Save heating system").click()
     expect(page.locator("#settings .status")).to_have_text("Heating system saved.")
     # the systems block was not swapped: its forms now carry the new version all the same
-    versions = page.locator("form input[name=version]").evaluate_all("els => els.map(e => e.value)")
+    # (app.js passes the version on once the swap has settled, a moment after the status shows)
+    for _ in range(100):
+        versions = page.locator("form input[name=version]").evaluate_all(
+            "els => els.map(e => e.value)"
+        )
+        if len(set(versions)) == 1:
+            break
+        page.wait_for_timeout(50)
     assert len(set(versions)) == 1, versions
     page.locator("#sys-design-output_capacity").fill("60000")
     page.get_by_role("button", name="Save design load and equipment").click()
