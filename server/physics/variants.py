@@ -135,6 +135,18 @@ class Variants:
         self.pipe = [np.array([o.pipe_loss_j for o in g.options]) for g in self.groups]
         self.installed = [np.array([o.installed_cost for o in g.options]) for g in self.groups]
         self.rebate = [np.array([o.rebate for o in g.options]) for g in self.groups]
+        # the same, padded into one (group, option) table each, for gathering every group's
+        # value of many selections at once (:meth:`group_sums`)
+        widest = max((len(g.options) for g in self.groups), default=1)
+        self._tables = np.zeros((4, len(self.groups), widest))
+        for g in range(len(self.groups)):
+            for t, values in enumerate(
+                (self.ua[g], self.pipe[g], self.installed[g], self.rebate[g])
+            ):
+                self._tables[t, g, : len(values)] = values
+        self._ua_columns = np.array(
+            [g for g in range(len(self.groups)) if g not in self._coupled_groups], dtype=np.int64
+        )
         bases = (
             0 if house.climate.variable_base is None else len(house.climate.variable_base.bases_c)
         )
@@ -261,6 +273,43 @@ class Variants:
             row[g] = self._by_set[g][frozenset(names)]
         return row
 
+    def prefix_selections(self, upgrade_ids: Sequence[str]) -> IntArray:
+        """The selections of the first 1, 2, ..., n upgrades of ``upgrade_ids`` (one row each):
+        row k equals :meth:`selection` of ``upgrade_ids[:k + 1]``, built in one pass (each row
+        is the last one with one more upgrade). Raises as :meth:`selection` does."""
+        rows = np.zeros((len(upgrade_ids), len(self.groups)), dtype=np.int64)
+        chosen: dict[int, set[str]] = {}
+        targets: dict[str, str] = {}
+        row = np.zeros(len(self.groups), dtype=np.int64)
+        for k, name in enumerate(upgrade_ids):
+            if name not in self._group_of:
+                raise ValueError(f"there is no upgrade '{name}'")
+            target = model.upgrade_target(self.upgrades[name])
+            if target in targets:
+                raise ValueError(
+                    f"upgrades '{targets[target]}' and '{name}' both change "
+                    f"{target.replace(':', ' ')}; a package can change each surface, pipe run "
+                    "or the air leakage only once"
+                )
+            targets[target] = name
+            g = self._group_of[name]
+            names = chosen.setdefault(g, set())
+            names.add(name)
+            row[g] = self._by_set[g][frozenset(names)]
+            rows[k] = row
+        return rows
+
+    def single_selections(self, upgrade_ids: Sequence[str]) -> IntArray:
+        """The selection of each upgrade alone (one row each): row k equals :meth:`selection`
+        of ``[upgrade_ids[k]]``. Raises ValueError on an unknown upgrade."""
+        rows = np.zeros((len(upgrade_ids), len(self.groups)), dtype=np.int64)
+        for k, name in enumerate(upgrade_ids):
+            if name not in self._group_of:
+                raise ValueError(f"there is no upgrade '{name}'")
+            g = self._group_of[name]
+            rows[k, g] = self._by_set[g][frozenset((name,))]
+        return rows
+
     def upgrade_ids(self, selection: Sequence[int] | IntArray) -> tuple[str, ...]:
         """The upgrades of a selection, in the order the upgrades were given."""
         names = {
@@ -288,17 +337,20 @@ class Variants:
         if sel.ndim == 1:
             sel = sel[None, :]
         n = sel.shape[0]
-        ua = np.zeros(n)
-        pipe = np.zeros(n)
-        installed = np.zeros(n)
-        rebate = np.zeros(n)
-        for g in range(len(self.groups)):
-            column = sel[:, g]
-            if g not in self._coupled_groups:
-                ua += self.ua[g][column]
-            pipe += self.pipe[g][column]
-            installed += self.installed[g][column]
-            rebate += self.rebate[g][column]
+        groups = len(self.groups)
+        # each group's value of each selection, (4, n, 1 + groups) with a zero column first;
+        # the running sum along the groups (np.cumsum adds strictly in order) ends at the sum
+        # 0 + v_0 + v_1 + ... of a loop over the groups, float for float
+        gathered = np.zeros((4, n, 1 + groups))
+        gathered[:, :, 1:] = self._tables[:, np.arange(groups)[None, :], sel]
+        sums = np.cumsum(gathered[1:], axis=2)[:, :, -1]
+        pipe, installed, rebate = sums[0], sums[1], sums[2]
+        if len(self._ua_columns) == groups:
+            ua = np.cumsum(gathered[0], axis=1)[:, -1]
+        else:
+            ua = np.cumsum(gathered[0][:, np.concatenate(([0], 1 + self._ua_columns))], axis=1)[
+                :, -1
+            ]
         for space in self.coupled:
             h_iu = np.zeros(n)
             for g in space.groups:

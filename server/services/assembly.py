@@ -204,13 +204,18 @@ def evaluate_assembly(
     units: Units,
     catalog: Catalog | None = None,
     field: str = "",
+    document_json: str | None = None,
 ) -> AssemblyResult:
     """R-values of an assembly in the request's units. Raises InputError with field paths.
 
     Results are kept between calls (:mod:`.assembly_cache`: same document, units, field and
-    catalog rows give the same result)."""
+    catalog rows give the same result); ``document_json``: ``assembly.model_dump_json()``
+    when the caller has it already."""
     catalog = builtin_catalog() if catalog is None else catalog
-    return assembly_cache.cached(_evaluate, assembly, units=units, catalog=catalog, field=field)
+    return assembly_cache.cached(
+        _evaluate, assembly, units=units, catalog=catalog, field=field,
+        document_json=document_json,
+    )  # fmt: skip
 
 
 def _evaluate(

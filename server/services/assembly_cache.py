@@ -57,10 +57,30 @@ class _Recording(Mapping[str, MaterialSpec]):
 
 
 def _copy(result: AssemblyResult) -> AssemblyResult:
-    """A copy whose lists a caller may change without changing the kept result."""
-    return result.model_copy(
-        update={"warnings": list(result.warnings), "layers": list(result.layers)}
-    )
+    """A copy whose lists a caller may change without changing the kept result: what
+    ``result.model_copy(update={"warnings": [...], "layers": [...]})`` makes (a shallow copy,
+    the two lists new, both marked as set), without its general machinery."""
+    if result.__pydantic_extra__ is not None or result.__pydantic_private__ is not None:
+        return result.model_copy(
+            update={"warnings": list(result.warnings), "layers": list(result.layers)}
+        )
+    made = AssemblyResult.__new__(type(result))
+    fields = dict(result.__dict__)
+    fields["warnings"] = list(result.warnings)
+    fields["layers"] = list(result.layers)
+    object.__setattr__(made, "__dict__", fields)
+    object.__setattr__(made, "__pydantic_extra__", None)
+    object.__setattr__(made, "__pydantic_fields_set__", result.__pydantic_fields_set__ | _LISTS)
+    object.__setattr__(made, "__pydantic_private__", None)
+    return made
+
+
+_LISTS = frozenset({"warnings", "layers"})
+
+
+def _same(row: MaterialSpec | None, kept: MaterialSpec | None) -> bool:
+    """The catalog's row equals the kept one (the very same object first, the cheap test)."""
+    return row is kept or row == kept
 
 
 def cached(
@@ -70,12 +90,15 @@ def cached(
     units: Units,
     catalog: Catalog,
     field: str,
+    document_json: str | None = None,
 ) -> AssemblyResult:
-    """``compute(assembly, units=, catalog=, field=)``, or its kept result (module docstring)."""
-    key = (assembly.model_dump_json(), str(units), field)
+    """``compute(assembly, units=, catalog=, field=)``, or its kept result (module docstring);
+    ``document_json``: ``assembly.model_dump_json()`` when the caller has it already."""
+    json = assembly.model_dump_json() if document_json is None else document_json
+    key = (json, str(units), field)
     with _lock:
         found = _entries.get(key)
-        if found is not None and all(catalog.get(slug) == spec for slug, spec in found[0]):
+        if found is not None and all(_same(catalog.get(slug), spec) for slug, spec in found[0]):
             _entries.move_to_end(key)
             _counts["hits"] += 1
             return _copy(found[1])

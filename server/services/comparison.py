@@ -43,7 +43,7 @@ from server.services.house_figures import _figures, _fuel, _option
 from server.services.house_input import _Build, _check_ids, _house
 from server.services.house_options import SUMMARY_FIELDS, Options, Summary
 from server.services.house_spaces import _check_spaces, _space_assumptions, _with_spaces
-from server.services.house_upgrades import _upgrade
+from server.services.house_upgrades import SurfaceLookup, _upgrade
 from server.services.optimize import attach_optimum
 from server.services.uncertainty import attach_ranges
 
@@ -92,9 +92,60 @@ def model_of_document(
     house = _with_spaces(doc, _house(doc, build))
     if with_windows:
         house = gains_svc.with_windows(doc, house, build.warnings)
-    pure = [_upgrade(doc, i, u, house, build) for i, u in enumerate(doc.upgrades)]
+    lookup = SurfaceLookup(doc, house)
+    pure = [_upgrade(doc, i, u, house, build, lookup) for i, u in enumerate(doc.upgrades)]
     build.raise_problems()
     return house, [u for u in pure if u is not None], build.warnings
+
+
+_SUMMARY_KEYS = (
+    "id", "name", "upgrades", "annual_savings", "installed_cost", "rebates", "net_cost",
+    "simple_payback_years", "npv", "sir", "present_value", "co2_avoided", "heating_cost",
+    "heating_fuel_saved", "total_cost", "calibrated", "range", "warnings",
+)  # fmt: skip
+
+
+def _construct_plan(keys: tuple[str, ...]) -> list[tuple[str, bool, Any]] | None:
+    """What :meth:`OptionFigures.model_construct` does with exactly ``keys`` given: each field
+    in order, given or its default (None: the model has what this plan does not mirror)."""
+    if OptionFigures.__pydantic_post_init__ or OptionFigures.__pydantic_root_model__:
+        return None
+    plan = []
+    for field_name, field in OptionFigures.model_fields.items():
+        if field.alias is not None or field.validation_alias is not None:
+            return None
+        if field_name in keys:
+            plan.append((field_name, True, None))
+        elif not field.is_required():
+            if field.default_factory is not None:
+                return None
+            default = field.default
+            if not (default is None or type(default) is float or default == []):
+                return None
+            plan.append((field_name, False, default))
+    return plan
+
+
+_PLAN = _construct_plan(_SUMMARY_KEYS)
+_SUMMARY_SET = frozenset(_SUMMARY_KEYS)
+
+
+def _construct(values: dict[str, Any]) -> OptionFigures:
+    """``OptionFigures.model_construct(**values)`` (``values``: the keys of _SUMMARY_KEYS),
+    built from the plan made once: the same ``__dict__`` (an empty list default a new list
+    each time, as pydantic copies it) and fields set."""
+    if _PLAN is None:
+        return OptionFigures.model_construct(**values)
+    fields = {
+        name: values[name] if given else ([] if type(default) is list else default)
+        for name, given, default in _PLAN
+    }
+    made = OptionFigures.__new__(OptionFigures)
+    object.__setattr__(made, "__dict__", fields)
+    object.__setattr__(made, "__pydantic_fields_set__", set(_SUMMARY_SET))
+    object.__setattr__(made, "__pydantic_extra__", None)
+    object.__setattr__(made, "__pydantic_private__", None)
+    return made
 
 
 def _summary(name: str, found: Summary) -> OptionFigures:
@@ -116,7 +167,8 @@ def _summary(name: str, found: Summary) -> OptionFigures:
     warnings = list(found.warnings)
     if money.annual_savings <= 0:
         warnings.append("saves nothing at today's prices, so it never pays back")
-    return OptionFigures.model_construct(**values, warnings=warnings)
+    values["warnings"] = warnings
+    return _construct(values)
 
 
 def compute_house(
@@ -156,11 +208,27 @@ def compute_house(
             currency=doc.currency,
             as_found=HouseFigures(**_figures(doc, house, as_found)),
             packages=[
-                _option(doc, house, by_id, as_found, option, package_names[option.id])
+                _option(
+                    doc,
+                    house,
+                    by_id,
+                    as_found,
+                    option,
+                    package_names[option.id],
+                    options.house_of(option),
+                )  # fmt: skip
                 for option in packages
             ],
             upgrades=[
-                _option(doc, house, by_id, as_found, option, upgrade_names[option.id])
+                _option(
+                    doc,
+                    house,
+                    by_id,
+                    as_found,
+                    option,
+                    upgrade_names[option.id],
+                    options.house_of(option),
+                )  # fmt: skip
                 for option in full_alone
             ],
             fuel=_fuel(doc, house),

@@ -118,9 +118,13 @@ def _option(
     as_found: model.HouseEnergy,
     option: model.OptionResult,
     name: str,
+    modified: model.House | None = None,
 ) -> OptionFigures:
+    """The figures of one option; ``modified``: its house with the upgrades applied, when the
+    caller has it already (else applied here)."""
     money = option.appraisal
-    modified = model.apply_upgrades(house, [upgrades[u] for u in option.upgrade_ids])
+    if modified is None:
+        modified = model.apply_upgrades(house, [upgrades[u] for u in option.upgrade_ids])
     warnings = list(option.warnings)
     if money.annual_savings <= 0:
         warnings.append("saves nothing at today's prices, so it never pays back")

@@ -79,8 +79,9 @@ class _Build:
         if key not in self.assemblies:
             try:
                 result = evaluate_assembly(
-                    assembly, units=self.units, catalog=self.catalog, field=path
-                )
+                    assembly, units=self.units, catalog=self.catalog, field=path,
+                    document_json=key,
+                )  # fmt: skip
             except ValueError as exc:
                 raise InputError(f"{path}.layers", str(exc)) from None
             if not (result.rsi_total > 0 and math.isfinite(result.rsi_total)):

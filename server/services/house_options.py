@@ -13,12 +13,17 @@ steps in the listed order, NIST 135 money figures), computed with less work:
 * each upgrade alone, when the caller asks only for its savings and money
   (:data:`SUMMARY_FIELDS`), from the array core in one evaluation of every upgrade.
 
-tests/unit/test_variants_speed.py checks the fast path against the package path of
+The steps' selections are built in one pass (:meth:`.Variants.prefix_selections`), each
+package's modified house is kept for its figures (:meth:`Options.house_of`), and a summary's
+money figures skip the cash flow it does not carry (:class:`SummaryMoney`), for every upgrade
+at once; tests/unit/test_variants_rows.py checks these equal the slow paths float for float.
+tests/unit/test_variants.py checks the fast path against the package path of
 :func:`.house_model.evaluate_option` on random houses.
 """
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -37,12 +42,34 @@ SUMMARY_FIELDS = frozenset(
 
 
 @dataclass(frozen=True, slots=True)
+class SummaryMoney:
+    """The money figures of an upgrade alone that a summary carries: those of
+    :func:`server.physics.economics.appraise`, without its cash flow and payback crossings."""
+
+    installed_cost: float
+    rebates: float
+    net_cost: float
+    annual_savings: float
+    simple_payback_years: float | None
+    present_value: float
+    npv: float
+    sir: float | None
+
+
+def _finite(value: float, name: str) -> float:
+    """The check (and words) of :func:`server.physics.economics.appraise` for one input."""
+    if not math.isfinite(value):
+        raise ValueError(f"{name} must be a finite number (not NaN or infinity)")
+    return value
+
+
+@dataclass(frozen=True, slots=True)
 class Summary:
     """One upgrade alone: what it saves and its money figures (no house figures)."""
 
     id: str
     upgrade_ids: tuple[str, ...]
-    appraisal: economics.Appraisal
+    appraisal: SummaryMoney
     co2_avoided_kg: float
     heating_cost: float
     heating_fuel_saved: float
@@ -62,6 +89,8 @@ class Options:
             econ.discount_rate, econ.escalation_rate, econ.years
         )
         self.as_found = model.evaluate(house)
+        #: each evaluated option's house, by the option's identity (for its figures)
+        self._houses: dict[int, tuple[model.OptionResult, model.House]] = {}
         self.variants: Variants | None = None
         if unsupported(house, self.upgrades) is None:
             try:
@@ -85,6 +114,66 @@ class Options:
             factors=self.factors,
         )
 
+    def summary_money(
+        self, installed_cost: float, rebates: float, annual_savings: float
+    ) -> SummaryMoney:
+        """:meth:`appraise`'s figures of :class:`SummaryMoney` (the same checks, in the same
+        order, and the same arithmetic), without building the cash flow nobody reads."""
+        econ = self.house.economics
+        net = _finite(installed_cost, "the installed cost") - _finite(rebates, "the rebates")
+        _finite(net, "the net cost")
+        present = economics.present_value_of_savings(
+            annual_savings, econ.discount_rate, econ.escalation_rate, econ.years, self.factors
+        )
+        if econ.loan_apr is not None and econ.loan_months is not None:
+            economics.monthly_loan_payment(net, econ.loan_apr, econ.loan_months)  # its checks
+        return SummaryMoney(
+            installed_cost=installed_cost,
+            rebates=rebates,
+            net_cost=net,
+            annual_savings=annual_savings,
+            simple_payback_years=economics.simple_payback_years(net, annual_savings),
+            present_value=present,
+            npv=present - net,
+            sir=economics.savings_to_investment_ratio(net, present),
+        )
+
+    def _summary_moneys(self, savings: np.ndarray) -> list[SummaryMoney] | None:
+        """:meth:`summary_money` of every upgrade alone (``savings``: each one's) at once: the
+        present values as the same products summed year by year in the same order (so the
+        same floats); None when an input is not finite (the caller then takes each in turn,
+        which raises with the words of the first)."""
+        econ = self.house.economics
+        installed = [u.installed_cost for u in self.upgrades]
+        rebates = [u.rebate for u in self.upgrades]
+        net = [i - r for i, r in zip(installed, rebates, strict=True)]
+        if not self.factors or not all(math.isfinite(v) for v in (*installed, *rebates, *net)):
+            return None
+        present_sum = np.zeros_like(savings)  # sum() starts at 0 too
+        for escalation, discount in self.factors:
+            present_sum = present_sum + savings * escalation * discount
+        if not (np.isfinite(savings).all() and np.isfinite(present_sum).all()):
+            return None
+        if econ.loan_apr is not None and econ.loan_months is not None:
+            economics.monthly_loan_payment(net[0], econ.loan_apr, econ.loan_months)  # checks
+        out = []
+        for c, r, n, s, p in zip(
+            installed, rebates, net, savings.tolist(), present_sum.tolist(), strict=True
+        ):
+            out.append(
+                SummaryMoney(
+                    installed_cost=c,
+                    rebates=r,
+                    net_cost=n,
+                    annual_savings=s,
+                    simple_payback_years=max(n, 0.0) / s if s > 0 else None,
+                    present_value=p,
+                    npv=p - n,
+                    sir=p / n if n > 0 else None,
+                )
+            )
+        return out
+
     def _warnings(self, upgrade: model.Upgrade, saved: float) -> list[str]:
         """What :func:`.house_model.evaluate_option` says of one step."""
         notes = []
@@ -104,9 +193,7 @@ class Options:
         """The array figures of the houses with the first 1..n-1 upgrades (None: no core)."""
         if self.variants is None or len(chosen) < 2:
             return None
-        rows = np.zeros((len(chosen) - 1, len(self.variants.groups)), dtype=np.int64)
-        for count in range(1, len(chosen)):
-            rows[count - 1] = self.variants.selection([u.id for u in chosen[:count]])
+        rows = self.variants.prefix_selections([u.id for u in chosen[:-1]])
         return self.variants.evaluate(rows)
 
     def option(self, option_id: str, chosen: Sequence[model.Upgrade]) -> model.OptionResult:
@@ -114,7 +201,8 @@ class Options:
         :func:`.house_model.evaluate_option`."""
         if not chosen:
             raise ValueError(f"'{option_id}' has no upgrades")
-        package_energy = model.evaluate(model.apply_upgrades(self.house, chosen))
+        modified = model.apply_upgrades(self.house, chosen)
+        package_energy = model.evaluate(modified)
         arrays = self._step_figures(chosen)
         totals: list[tuple[float, float, float]] = [
             (self.as_found.total_cost, self.as_found.ua_w_per_k, self.as_found.co2_kg)
@@ -143,7 +231,7 @@ class Options:
         )
         if appraisal.net_cost < 0:
             warnings.append("the rebates are larger than the installed cost")
-        return model.OptionResult(
+        result = model.OptionResult(
             id=option_id,
             upgrade_ids=tuple(u.id for u in chosen),
             energy=package_energy,
@@ -152,6 +240,13 @@ class Options:
             steps=tuple(steps),
             warnings=tuple(warnings),
         )
+        self._houses[id(result)] = (result, modified)
+        return result
+
+    def house_of(self, result: model.OptionResult) -> model.House | None:
+        """The modified house of an option this object evaluated (None: another's)."""
+        found = self._houses.get(id(result))
+        return found[1] if found is not None and found[0] is result else None
 
     def summaries(self) -> list[Summary]:
         """Each upgrade alone, its savings and money figures (in the upgrades' order)."""
@@ -161,7 +256,7 @@ class Options:
                 Summary(
                     o.id,
                     o.upgrade_ids,
-                    o.appraisal,
+                    _money_of(o.appraisal),
                     o.co2_avoided_kg,
                     o.energy.heating_cost,
                     self.as_found.heating_fuel_units - o.energy.heating_fuel_units,
@@ -174,15 +269,20 @@ class Options:
         variants = self.variants
         if not self.upgrades:
             return []
-        rows = np.stack([variants.selection([u.id]) for u in self.upgrades])
+        rows = variants.single_selections([u.id for u in self.upgrades])
         found = variants.evaluate(rows)
         as_found = self.as_found
+        money = self._summary_moneys(as_found.total_cost - found.total_cost)
         out = []
         for k, upgrade in enumerate(self.upgrades):
             total = float(found.total_cost[k])
             savings = as_found.total_cost - total
             warnings = self._warnings(upgrade, savings)
-            appraisal = self.appraise(upgrade.installed_cost, upgrade.rebate, savings)
+            appraisal = (
+                money[k]
+                if money is not None
+                else self.summary_money(upgrade.installed_cost, upgrade.rebate, savings)
+            )
             if appraisal.net_cost < 0:
                 warnings.append("the rebates are larger than the installed cost")
             out.append(
@@ -199,3 +299,17 @@ class Options:
                 )  # fmt: skip
             )
         return out
+
+
+def _money_of(appraisal: economics.Appraisal) -> SummaryMoney:
+    """The summary's part of a full appraisal."""
+    return SummaryMoney(
+        installed_cost=appraisal.installed_cost,
+        rebates=appraisal.rebates,
+        net_cost=appraisal.net_cost,
+        annual_savings=appraisal.annual_savings,
+        simple_payback_years=appraisal.simple_payback_years,
+        present_value=appraisal.present_value,
+        npv=appraisal.npv,
+        sir=appraisal.sir,
+    )

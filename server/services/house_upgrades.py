@@ -6,6 +6,7 @@ from __future__ import annotations
 from server.documents.house import (
     GROUND_SURFACE_KINDS,
     HouseDocument,
+    SurfaceIn,
     UpgradeIn,
 )
 from server.physics import house_model as model
@@ -25,10 +26,29 @@ def _leakage_words(flow_m3_per_s: float, volume_m3: float) -> str:
     return f"{flow_m3_per_s / CFM_M3_PER_S:.0f} CFM50, n50 {ach50:.2f}/h"
 
 
+class SurfaceLookup:
+    """A document's surfaces by id (with their index) and the house's U by surface id, the
+    first of each id, as the upgrades of one document ask for them again and again."""
+
+    def __init__(self, doc: HouseDocument, house: model.House) -> None:
+        self.surfaces: dict[str, tuple[int, SurfaceIn]] = {}
+        for i, s in enumerate(doc.surfaces):
+            self.surfaces.setdefault(s.id, (i, s))
+        self.u_si: dict[str, float] = {}
+        for surface in house.surfaces:
+            self.u_si.setdefault(surface.id, surface.u_si)
+
+
 def _upgrade(
-    doc: HouseDocument, index: int, upgrade: UpgradeIn, house: model.House, build: _Build
+    doc: HouseDocument,
+    index: int,
+    upgrade: UpgradeIn,
+    house: model.House,
+    build: _Build,
+    lookup: SurfaceLookup | None = None,
 ) -> model.Upgrade | None:
-    """The pure upgrade, or None after recording a problem."""
+    """The pure upgrade, or None after recording a problem (``lookup``: the document's
+    :class:`SurfaceLookup`, made here when not given)."""
     units = doc.units
     path = f"upgrades[{index}]"
     cost = upgrade.cost
@@ -51,9 +71,10 @@ def _upgrade(
         if after >= leak.flow50_m3_per_s * (1 - 1e-9):
             build.warnings.append(f"{upgrade.id}: the target equals the as-found leakage ({words})")
         return model.AirSealingUpgrade(upgrade.id, after, cost.fixed, rebate, life)
-    surface_index, surface = next(
-        (i, s) for i, s in enumerate(doc.surfaces) if s.id == upgrade.surface
-    )
+    if lookup is None:
+        lookup = SurfaceLookup(doc, house)
+    assert upgrade.surface is not None  # the document asks it of every other kind
+    surface_index, surface = lookup.surfaces[upgrade.surface]
     if upgrade.kind == "pipe_insulation":
         assert surface.pipe and surface.length  # a pipe run, checked by the document
         r_si, _delta, notes = build.pipe(
@@ -96,7 +117,7 @@ def _upgrade(
                 upgrade.ground.model_dump(exclude_none=True) if upgrade.ground else ()
             ),
         )
-    before = next(s.u_si for s in house.surfaces if s.id == surface.id)
+    before = lookup.u_si[surface.id]
     if u_si >= before * (1 - 1e-12):
         r_before, r_after = from_si(1 / before, "r", units), from_si(1 / u_si, "r", units)
         r_words = f"R {r_before:.3g} as found, {r_after:.3g} after"

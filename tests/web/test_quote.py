@@ -25,7 +25,7 @@ def _result(app, house_id: int):  # type: ignore[no-untyped-def]
 
 
 def _dd(page: str, element_id: str) -> str:
-    match = re.search(rf'id="{element_id}">([^<]*)<', page)
+    match = re.search(rf'id="{element_id}"[^>]*>([^<]*)<', page)  # other attributes may follow
     assert match, element_id
     return match.group(1)
 
