@@ -63,7 +63,8 @@ class ClimateZone:
     cdd10_k_day: float
 
 
-def _check_finite(value: float, name: str) -> float:
+def check_finite(value: float, name: str) -> float:
+    """``value`` as a float, or ValueError naming it when it is not a finite number."""
     if not isinstance(value, int | float) or not math.isfinite(value):
         raise ValueError(f"{name} must be a finite number (not NaN or infinity)")
     return float(value)
@@ -140,8 +141,8 @@ def thermal_climate_zone(hdd18_k_day: float, cdd10_k_day: float) -> ClimateZone:
         annex A, from memory). Only the thermal number is given; the moisture letter
         (A/B/C) needs precipitation data that a temperature file does not carry.
     """
-    hdd18 = _check_finite(hdd18_k_day, "HDD18")
-    cdd10 = _check_finite(cdd10_k_day, "CDD10")
+    hdd18 = check_finite(hdd18_k_day, "HDD18")
+    cdd10 = check_finite(cdd10_k_day, "CDD10")
     if hdd18 < 0 or cdd10 < 0:
         raise ValueError("degree-days cannot be negative")
     for number, name, cdd_above, hdd_at_most, hdd_above in THERMAL_ZONES:

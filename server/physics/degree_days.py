@@ -41,6 +41,7 @@ from server.physics.climate_design import (
     ZONE_HEATING_BASE_C,
     ClimateZone,
     DesignTemperatures,
+    check_finite,
     design_temperatures,
     percentile_linear,
     thermal_climate_zone,
@@ -115,14 +116,8 @@ class VariableBaseDegreeDays:
     days: int
 
 
-def _check_finite(value: float, name: str) -> float:
-    if not isinstance(value, int | float) or not math.isfinite(value):
-        raise ValueError(f"{name} must be a finite number (not NaN or infinity)")
-    return float(value)
-
-
 def _check_base(base_c: float, name: str) -> float:
-    base_c = _check_finite(base_c, name)
+    base_c = check_finite(base_c, name)
     low, high = BASE_RANGE_C
     if not low <= base_c <= high:
         raise ValueError(f"{name} must be between {low:g} and {high:g} °C")
@@ -257,8 +252,8 @@ def balance_point_temperature_c(
         system must run [1].
     """
     setpoint_c = _check_base(setpoint_c, "setpoint")
-    gains = _check_finite(internal_gains_w, "internal gains")
-    ua = _check_finite(ua_w_per_k, "UA")
+    gains = check_finite(internal_gains_w, "internal gains")
+    ua = check_finite(ua_w_per_k, "UA")
     if gains < 0:
         raise ValueError("internal gains cannot be negative")
     if ua <= 0:
@@ -317,7 +312,7 @@ def interpolate_degree_days(
     ValueError
         When the table is empty, not ascending, of unequal lengths, or ``base_c`` lies outside.
     """
-    base_c = _check_finite(base_c, "base")
+    base_c = check_finite(base_c, "base")
     if len(bases_c) != len(degree_days_k_day) or not bases_c:
         raise ValueError("the table needs one degree-day value per base")
     if any(upper <= lower for lower, upper in zip(bases_c, bases_c[1:], strict=False)):
