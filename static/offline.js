@@ -356,5 +356,5 @@
   }
   listKept();
   box.summary().then(show).then(tryFlush);
-  window.WarmsteadOffline = { shouldQueue: shouldQueue };
+  window.WarmsteadOffline = { shouldQueue: shouldQueue, note: note };
 })();

@@ -11,16 +11,8 @@
   var QUALITY = 0.85;
   var KEPT_TEXT = "Photo kept on this tablet: it is sent when the connection returns.";
 
-  function note(form, text) {
-    var p = form.querySelector(".outbox-note");
-    if (!p) {
-      p = document.createElement("p");
-      p.className = "outbox-note";
-      p.setAttribute("role", "status");
-      form.appendChild(p);
-    }
-    p.textContent = text;
-  }
+  // the outbox's own status line under the form (static/offline.js, loaded before this file)
+  function note(form, text) { window.WarmsteadOffline.note(form, text); }
 
   function freshKey(form) {
     var input = form.querySelector("input[name=idempotency_key]");
