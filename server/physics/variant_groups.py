@@ -308,28 +308,15 @@ def build_groups(
         groups.append(ChoiceGroup(f"pipe:{run.id}", (f"pipe:{run.id}",), tuple(options_list)))
     ducts = vsys.duct_options(house, duct_sealing, duct_insulation)
     if ducts is not None:
-        groups.append(
-            ChoiceGroup(
-                "ducts:leakage",
-                ("ducts:leakage",),
-                tuple(
-                    Option(ids, installed_cost=u.installed_cost, rebate=u.rebate)
-                    if u is not None
-                    else Option(ids)
-                    for ids, u in zip(ducts.leakage_ids, [None, *duct_sealing], strict=True)
-                ),
+        for key, ids_of, chosen in (
+            ("ducts:leakage", ducts.leakage_ids, duct_sealing),
+            ("ducts:insulation", ducts.insulation_ids, duct_insulation),
+        ):
+            options = tuple(
+                Option(ids, installed_cost=u.installed_cost, rebate=u.rebate)
+                if u is not None
+                else Option(ids)
+                for ids, u in zip(ids_of, [None, *chosen], strict=True)
             )
-        )
-        groups.append(
-            ChoiceGroup(
-                "ducts:insulation",
-                ("ducts:insulation",),
-                tuple(
-                    Option(ids, installed_cost=u.installed_cost, rebate=u.rebate)
-                    if u is not None
-                    else Option(ids)
-                    for ids, u in zip(ducts.insulation_ids, [None, *duct_insulation], strict=True)
-                ),
-            )
-        )
+            groups.append(ChoiceGroup(key, (key,), options))
     return groups, coupled, ducts

@@ -26,6 +26,7 @@ The work is split by topic: document -> model in :mod:`.house_input` (surfaces, 
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from typing import Any, Literal
 
 from pydantic import ValidationError
@@ -202,35 +203,20 @@ def compute_house(
         summaries = options.summaries() if upgrades_alone == "summary" else []
     except ValueError as exc:  # _check_ids covers these; a last guard against a 500
         raise InputError("upgrades", str(exc)) from None
+
+    def figures_of(option: model.OptionResult, names: Mapping[str, str]) -> OptionFigures:
+        """A package or an upgrade alone with every field (its own modified house)."""
+        return _option(
+            doc, house, by_id, as_found, option, names[option.id], options.house_of(option)
+        )
+
     try:
         result = HouseResult(
             units=doc.units,
             currency=doc.currency,
             as_found=HouseFigures(**_figures(doc, house, as_found)),
-            packages=[
-                _option(
-                    doc,
-                    house,
-                    by_id,
-                    as_found,
-                    option,
-                    package_names[option.id],
-                    options.house_of(option),
-                )  # fmt: skip
-                for option in packages
-            ],
-            upgrades=[
-                _option(
-                    doc,
-                    house,
-                    by_id,
-                    as_found,
-                    option,
-                    upgrade_names[option.id],
-                    options.house_of(option),
-                )  # fmt: skip
-                for option in full_alone
-            ],
+            packages=[figures_of(option, package_names) for option in packages],
+            upgrades=[figures_of(option, upgrade_names) for option in full_alone],
             fuel=_fuel(doc, house),
             analysis_years=doc.economics.years,
             step_order=STEP_ORDER,
