@@ -24,8 +24,14 @@ STATUS = "#editor p.status"
 
 
 def _new_rim_surface(browser, base: str, signed_in):  # type: ignore[no-untyped-def]
-    """A new page on the surface page of a new house holding one rim joist of 100 ft²."""
-    page = browser.new_page(viewport={"width": 1280, "height": 900}, storage_state=signed_in)
+    """A new page on the surface page of a new house holding one rim joist of 100 ft².
+
+    Service workers are blocked: these tests hold and time the saves with ``page.route``, and
+    Playwright's routing does not reliably see a request that a page's worker took first (its
+    documentation advises blocking them); the worker has its own tests (test_offline.py)."""
+    page = browser.new_page(
+        viewport={"width": 1280, "height": 900}, storage_state=signed_in, service_workers="block"
+    )
     page.goto(base + "/houses")
     page.locator("#label").fill(f"Autosave check {next(_names)} ({time.time_ns()})")
     page.get_by_role("button", name="Create house").click()
